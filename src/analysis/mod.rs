@@ -1,0 +1,1 @@
+//! Sweeps, corners, Monte Carlo, sensitivity, tempco, trim, noise and fits (later issues).

@@ -1,0 +1,47 @@
+//! Command-line verbs.
+pub mod docs_cmd;
+pub mod repl;
+pub mod run;
+
+use std::path::PathBuf;
+
+use clap::{Parser, Subcommand};
+
+/// Exit code of a script error (syntax, runtime, bad input).
+pub const EXIT_SCRIPT_ERROR: i32 = 1;
+/// Exit code of a command-line usage error (clap's own code).
+pub const EXIT_USAGE: i32 = 2;
+/// Exit code when every script ran but a metric failed its spec.
+pub const EXIT_SPEC_FAILED: i32 = 3;
+
+#[derive(Parser, Debug)]
+#[command(name = "tickwork", version, about = "Scripted timing-circuit calculations with Markdown reports")]
+pub struct Cli {
+    #[command(subcommand)]
+    pub cmd: Cmd,
+}
+
+#[derive(Subcommand, Debug)]
+pub enum Cmd {
+    /// Run scripts; each writes OUT/<script-name>/report.md
+    Run(run::RunArgs),
+    /// Interactive session (reads a pipe too)
+    Repl(repl::ReplArgs),
+    /// Show the documentation of one function, or list all
+    Doc { name: Option<String> },
+    /// Write every script function's signature and description as JSON (for editors)
+    Defs {
+        #[arg(long, default_value = "tickwork-defs.json")]
+        out: PathBuf,
+    },
+}
+
+/// Dispatch a parsed command line; returns the process exit code.
+pub fn main(cli: Cli) -> i32 {
+    match cli.cmd {
+        Cmd::Run(a) => run::run(&a),
+        Cmd::Repl(a) => repl::repl(&a),
+        Cmd::Doc { name } => docs_cmd::doc(name.as_deref()),
+        Cmd::Defs { out } => docs_cmd::defs(&out),
+    }
+}

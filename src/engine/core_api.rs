@@ -1,0 +1,73 @@
+//! Core script functions: engineering formatting, section markers and `--set` overrides.
+use rhai::{Dynamic, Engine, EvalAltResult};
+
+use super::docs::Doc;
+use super::prepass::{OVERRIDE_FN, SECTION_FN};
+use super::session::Shared;
+use super::value::to_f64;
+use crate::num::si::{eng, parse_number};
+
+type R<T> = Result<T, Box<EvalAltResult>>;
+
+pub const DOCS: &[Doc] = &[
+    Doc { name: "eng", sig: "eng(x: float) -> string", summary: "engineering notation with an SI prefix, 3 significant digits: eng(4700) → \"4.70k\"" },
+    Doc { name: "eng", sig: "eng(x: float, unit: string) -> string", summary: "with a unit: eng(3.33e-6, \"s\") → \"3.33 µs\"" },
+    Doc { name: "eng", sig: "eng(x: float, unit: string, digits: int) -> string", summary: "with a unit and 1..17 significant digits" },
+    Doc { name: "si", sig: "si(text: string) -> float", summary: "parse a number with an SI suffix: si(\"2.2pF\") → 2.2e-12" },
+    Doc { name: "seed", sig: "seed() -> int", summary: "the run's random seed (--seed N, default 1)" },
+];
+
+pub fn register(engine: &mut Engine, shared: &Shared) {
+    engine.register_fn("eng", |x: Dynamic| -> R<String> { Ok(eng(to_f64(&x)?, "", 3)) });
+    engine.register_fn("eng", |x: Dynamic, unit: &str| -> R<String> { Ok(eng(to_f64(&x)?, unit, 3)) });
+    engine.register_fn("eng", |x: Dynamic, unit: &str, digits: i64| -> R<String> {
+        if !(1..=17).contains(&digits) {
+            return Err(format!("eng: digits must be in 1..=17, got {digits}").into());
+        }
+        Ok(eng(to_f64(&x)?, unit, digits as usize))
+    });
+    engine.register_fn("si", |t: &str| -> R<f64> { parse_number(t).map_err(|e| e.into()) });
+
+    let s = shared.clone();
+    engine.register_fn("seed", move || s.lock().seed as i64);
+
+    let s = shared.clone();
+    engine.register_fn(SECTION_FN, move |n: i64| {
+        let mut g = s.lock();
+        g.current = (n.max(0) as usize).min(g.report.sections.len() - 1);
+    });
+
+    let s = shared.clone();
+    engine.register_fn(OVERRIDE_FN, move |name: &str, default: Dynamic| -> R<Dynamic> {
+        let mut g = s.lock();
+        let Some(text) = g.overrides.get(name).cloned() else { return Ok(default) };
+        g.used.insert(name.to_string());
+        override_value(name, &text, &default).map_err(|e| e.into())
+    });
+}
+
+/// The value of `--set NAME=TEXT`, of the same type as the script's own value for NAME.
+fn override_value(name: &str, text: &str, default: &Dynamic) -> Result<Dynamic, String> {
+    let bad = |what: &str| format!("--set {name}={text}: {name} is {what} in the script; '{text}' is not");
+    if default.is_float() {
+        parse_number(text).map(Dynamic::from_float).map_err(|e| format!("--set {name}={text}: {e}"))
+    } else if default.is_int() {
+        match text.parse::<i64>() {
+            Ok(i) => Ok(Dynamic::from_int(i)),
+            Err(_) => match parse_number(text) {
+                Ok(x) if x.fract() == 0.0 && x.abs() < 9e15 => Ok(Dynamic::from_int(x as i64)),
+                _ => Err(bad("an integer")),
+            },
+        }
+    } else if default.is_bool() {
+        match text {
+            "true" => Ok(Dynamic::TRUE),
+            "false" => Ok(Dynamic::FALSE),
+            _ => Err(bad("true or false")),
+        }
+    } else if default.is_string() {
+        Ok(Dynamic::from(text.to_string()))
+    } else {
+        Err(format!("--set {name}: {name} is a {} in the script; only numbers, integers, booleans and strings can be set", default.type_name()))
+    }
+}

@@ -1,0 +1,55 @@
+//! The scripting engine: Rhai set-up, the source pre-pass, module resolution, sandboxed file
+//! access, and registration of every native module. The only layer that knows about Rhai.
+pub mod core_api;
+pub mod docs;
+pub mod errors;
+pub mod physics_api;
+pub mod prepass;
+pub mod report_api;
+pub mod resolver;
+pub mod sandbox;
+pub mod script;
+pub mod series_api;
+pub mod session;
+pub mod stdlib;
+pub mod term;
+pub mod timing_api;
+pub mod value;
+
+use rhai::Engine;
+
+use session::Shared;
+
+/// Default operation limit: enough for any design calculation that keeps its heavy loops
+/// native, small enough to stop a runaway loop within seconds.
+pub const DEFAULT_MAX_OPS: u64 = 50_000_000;
+
+/// A configured engine with every tickwork function registered, reporting into `session`.
+pub fn build(session: &Shared, max_ops: u64) -> Engine {
+    let mut engine = Engine::new();
+    engine.set_max_operations(max_ops);
+    engine.set_max_call_levels(64);
+    engine.set_max_expr_depths(128, 64);
+    engine.set_strict_variables(true);
+    engine.set_fail_on_invalid_map_property(true);
+    // Scripts may not evaluate text as code: what runs is what is in the file.
+    engine.disable_symbol("eval");
+    engine.set_module_resolver(resolver::Resolver::new(session.clone()));
+
+    let s = session.clone();
+    engine.on_print(move |text| {
+        let mut g = s.lock();
+        if g.echo {
+            term::out(text);
+        }
+        g.push(crate::report::Item::Text(text.to_string()));
+    });
+    engine.on_debug(|text, _src, pos| eprintln!("debug (line {}): {text}", pos.line().unwrap_or(0)));
+
+    core_api::register(&mut engine, session);
+    series_api::register(&mut engine);
+    report_api::register(&mut engine, session);
+    physics_api::register(&mut engine);
+    timing_api::register(&mut engine);
+    engine
+}

@@ -1,0 +1,8 @@
+//! Registration of the physics layer (process, devices, switches, mirrors, comparators).
+use rhai::Engine;
+
+use super::docs::Doc;
+
+pub const DOCS: &[Doc] = &[];
+
+pub fn register(_engine: &mut Engine) {}

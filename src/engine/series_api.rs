@@ -1,0 +1,213 @@
+//! Registration of `Series` with the scripting engine: construction, elementwise arithmetic,
+//! comparisons giving masks, reductions, slicing, elementwise maths and `map` with a closure.
+use rhai::{Array, Dynamic, Engine, EvalAltResult, FnPtr, NativeCallContext};
+
+use super::docs::Doc;
+use super::value::to_f64;
+use crate::num::Series;
+
+type R<T> = Result<T, Box<EvalAltResult>>;
+
+pub const DOCS: &[Doc] = &[
+    Doc { name: "span", sig: "span(a: float, b: float, n: int) -> Series", summary: "n points from a to b inclusive, evenly spaced" },
+    Doc { name: "span_log", sig: "span_log(a: float, b: float, n: int) -> Series", summary: "n points from a to b inclusive, evenly spaced in log (a, b > 0)" },
+    Doc { name: "series", sig: "series(values: array) -> Series", summary: "a Series from an array of numbers" },
+    Doc { name: "zeros", sig: "zeros(n: int) -> Series", summary: "n zeros" },
+    Doc { name: "to_array", sig: "s.to_array() -> array", summary: "the Series as an array of floats" },
+    Doc { name: "len", sig: "s.len() -> int", summary: "number of elements" },
+    Doc { name: "sum", sig: "s.sum() -> float", summary: "sum of the elements" },
+    Doc { name: "mean", sig: "s.mean() -> float", summary: "arithmetic mean" },
+    Doc { name: "stdev", sig: "s.stdev() -> float", summary: "sample standard deviation (divides by n − 1)" },
+    Doc { name: "min", sig: "s.min() -> float", summary: "smallest element" },
+    Doc { name: "max", sig: "s.max() -> float", summary: "largest element" },
+    Doc { name: "argmin", sig: "s.argmin() -> int", summary: "index of the smallest element" },
+    Doc { name: "argmax", sig: "s.argmax() -> int", summary: "index of the largest element" },
+    Doc { name: "quantile", sig: "s.quantile(p: float) -> float", summary: "p-quantile, 0 ≤ p ≤ 1, linear interpolation (numpy default)" },
+    Doc { name: "slice", sig: "s.slice(start: int, end: int) -> Series", summary: "elements start..end (end excluded); also s[a..b]" },
+    Doc { name: "select", sig: "s.select(mask: Series) -> Series", summary: "elements where mask is non-zero (masks come from s > x, s <= t, …)" },
+    Doc { name: "count", sig: "mask.count() -> int", summary: "number of non-zero elements" },
+    Doc { name: "map", sig: "s.map(f: fn(float) -> float) -> Series", summary: "apply a function to every element" },
+    Doc { name: "exp", sig: "exp(s: Series) -> Series", summary: "elementwise e^x" },
+    Doc { name: "ln", sig: "ln(s: Series) -> Series", summary: "elementwise natural logarithm" },
+    Doc { name: "log10", sig: "log10(s: Series) -> Series", summary: "elementwise base-10 logarithm" },
+    Doc { name: "sqrt", sig: "sqrt(s: Series) -> Series", summary: "elementwise square root" },
+    Doc { name: "abs", sig: "abs(s: Series) -> Series", summary: "elementwise absolute value" },
+    Doc { name: "pow", sig: "pow(s: Series|float, p: float|Series) -> Series|float", summary: "elementwise power; also s ** p" },
+];
+
+fn err<T>(msg: impl Into<String>) -> R<T> {
+    Err(msg.into().into())
+}
+
+fn index(s: &Series, i: i64) -> R<usize> {
+    let n = s.len() as i64;
+    let k = if i < 0 { n + i } else { i };
+    if k < 0 || k >= n {
+        return err(format!("index {i} is out of range for a Series of length {n}"));
+    }
+    Ok(k as usize)
+}
+
+/// A Series from a script array of numbers.
+pub fn from_array(a: &Array) -> R<Series> {
+    a.iter()
+        .enumerate()
+        .map(|(k, v)| to_f64(v).map_err(|_| format!("element {k} of the array is a {}, not a number", v.type_name()).into()))
+        .collect()
+}
+
+fn lift(r: Result<Series, String>) -> R<Series> {
+    r.map_err(|e| e.into())
+}
+
+macro_rules! arith {
+    ($engine:ident, $op:literal, $f:expr) => {{
+        let f = $f;
+        $engine.register_fn($op, move |a: Series, b: Series| lift(a.zip_with(b, f)));
+        $engine.register_fn($op, move |a: Series, b: f64| a.map_in_place(|x| f(x, b)));
+        $engine.register_fn($op, move |a: Series, b: i64| a.map_in_place(|x| f(x, b as f64)));
+        $engine.register_fn($op, move |a: f64, b: Series| b.map_in_place(|y| f(a, y)));
+        $engine.register_fn($op, move |a: i64, b: Series| b.map_in_place(|y| f(a as f64, y)));
+    }};
+}
+
+macro_rules! compare {
+    ($engine:ident, $op:literal, $f:expr) => {{
+        let f = $f;
+        let m = move |x: f64, y: f64| if f(x, y) { 1.0 } else { 0.0 };
+        $engine.register_fn($op, move |a: Series, b: Series| lift(a.zip_with(b, m)));
+        $engine.register_fn($op, move |a: Series, b: f64| a.map_in_place(|x| m(x, b)));
+        $engine.register_fn($op, move |a: Series, b: i64| a.map_in_place(|x| m(x, b as f64)));
+        $engine.register_fn($op, move |a: f64, b: Series| b.map_in_place(|y| m(a, y)));
+        $engine.register_fn($op, move |a: i64, b: Series| b.map_in_place(|y| m(a as f64, y)));
+    }};
+}
+
+macro_rules! unary {
+    ($engine:ident, $name:literal, $f:expr) => {{
+        $engine.register_fn($name, |a: Series| a.map_in_place($f));
+    }};
+}
+
+pub fn register(engine: &mut Engine) {
+    engine.register_type_with_name::<Series>("Series");
+
+    engine.register_fn("span", |a: Dynamic, b: Dynamic, n: i64| -> R<Series> {
+        let (a, b) = (to_f64(&a)?, to_f64(&b)?);
+        if !(1..=100_000_000).contains(&n) {
+            return err(format!("span: n must be in 1..=100000000, got {n}"));
+        }
+        Ok(Series::span(a, b, n as usize))
+    });
+    engine.register_fn("span_log", |a: Dynamic, b: Dynamic, n: i64| -> R<Series> {
+        let (a, b) = (to_f64(&a)?, to_f64(&b)?);
+        if !(1..=100_000_000).contains(&n) {
+            return err(format!("span_log: n must be in 1..=100000000, got {n}"));
+        }
+        lift(Series::span_log(a, b, n as usize))
+    });
+    engine.register_fn("series", |a: Array| from_array(&a));
+    engine.register_fn("series", |s: Series| s);
+    engine.register_fn("zeros", |n: i64| -> R<Series> {
+        if !(0..=100_000_000).contains(&n) {
+            return err(format!("zeros: n must be in 0..=100000000, got {n}"));
+        }
+        Ok(Series::from(vec![0.0; n as usize]))
+    });
+    engine.register_fn("to_array", |s: &mut Series| -> Array { s.as_slice().iter().map(|x| Dynamic::from_float(*x)).collect() });
+    engine.register_fn("to_string", |s: &mut Series| format_series(s));
+    engine.register_fn("to_debug", |s: &mut Series| format_series(s));
+
+    arith!(engine, "+", |x: f64, y: f64| x + y);
+    arith!(engine, "-", |x: f64, y: f64| x - y);
+    arith!(engine, "*", |x: f64, y: f64| x * y);
+    arith!(engine, "/", |x: f64, y: f64| x / y);
+    arith!(engine, "**", |x: f64, y: f64| x.powf(y));
+    arith!(engine, "pow", |x: f64, y: f64| x.powf(y));
+    engine.register_fn("pow", |x: f64, y: f64| x.powf(y));
+    engine.register_fn("pow", |x: f64, y: i64| x.powi(y as i32));
+    engine.register_fn("-", |a: Series| a.map_in_place(|x| -x));
+    engine.register_fn("+", |a: Series| a);
+    compare!(engine, "<", |x: f64, y: f64| x < y);
+    compare!(engine, "<=", |x: f64, y: f64| x <= y);
+    compare!(engine, ">", |x: f64, y: f64| x > y);
+    compare!(engine, ">=", |x: f64, y: f64| x >= y);
+    engine.register_fn("==", |a: Series, b: Series| a == b);
+    engine.register_fn("!=", |a: Series, b: Series| a != b);
+
+    unary!(engine, "exp", f64::exp);
+    unary!(engine, "ln", f64::ln);
+    unary!(engine, "log10", f64::log10);
+    unary!(engine, "sqrt", f64::sqrt);
+    unary!(engine, "abs", f64::abs);
+
+    engine.register_fn("len", |s: &mut Series| s.len() as i64);
+    engine.register_fn("is_empty", |s: &mut Series| s.is_empty());
+    engine.register_fn("sum", |s: &mut Series| s.sum());
+    engine.register_fn("mean", |s: &mut Series| s.mean());
+    engine.register_fn("stdev", |s: &mut Series| s.stdev());
+    engine.register_fn("min", |s: &mut Series| s.min());
+    engine.register_fn("max", |s: &mut Series| s.max());
+    engine.register_fn("argmin", |s: &mut Series| -> R<i64> {
+        s.argmin().map(|k| k as i64).ok_or_else(|| "argmin of an empty (or all-NaN) series".into())
+    });
+    engine.register_fn("argmax", |s: &mut Series| -> R<i64> {
+        s.argmax().map(|k| k as i64).ok_or_else(|| "argmax of an empty (or all-NaN) series".into())
+    });
+    engine.register_fn("quantile", |s: &mut Series, p: Dynamic| -> R<f64> {
+        s.quantile(to_f64(&p)?).map_err(|e| e.into())
+    });
+    engine.register_fn("count", |s: &mut Series| s.as_slice().iter().filter(|x| **x != 0.0).count() as i64);
+    engine.register_fn("select", |s: &mut Series, mask: Series| lift(s.select(&mask)));
+    engine.register_fn("slice", |s: &mut Series, a: i64, b: i64| -> R<Series> {
+        if a < 0 || b < a {
+            return err(format!("slice({a}, {b}): need 0 <= start <= end"));
+        }
+        Ok(s.slice(a as usize, b as usize))
+    });
+    engine.register_indexer_get(|s: &mut Series, i: i64| -> R<f64> { Ok(s.as_slice()[index(s, i)?]) });
+    engine.register_indexer_set(|s: &mut Series, i: i64, v: Dynamic| -> R<()> {
+        let k = index(s, i)?;
+        s.make_mut()[k] = to_f64(&v)?;
+        Ok(())
+    });
+    engine.register_indexer_get(|s: &mut Series, r: std::ops::Range<i64>| -> R<Series> {
+        if r.start < 0 || r.end < r.start {
+            return err(format!("range {}..{}: need 0 <= start <= end", r.start, r.end));
+        }
+        Ok(s.slice(r.start as usize, r.end as usize))
+    });
+    engine.register_indexer_get(|s: &mut Series, r: std::ops::RangeInclusive<i64>| -> R<Series> {
+        let (a, b) = (*r.start(), *r.end());
+        if a < 0 || b < a {
+            return err(format!("range {a}..={b}: need 0 <= start <= end"));
+        }
+        Ok(s.slice(a as usize, b as usize + 1))
+    });
+    engine.register_fn("map", |ctx: NativeCallContext, s: &mut Series, f: FnPtr| -> R<Series> {
+        let mut out = Vec::with_capacity(s.len());
+        for &x in s.as_slice() {
+            let y: Dynamic = f.call_within_context(&ctx, (x,))?;
+            out.push(to_f64(&y).map_err(|_| format!("map: the function returned a {}, not a number", y.type_name()))?);
+        }
+        Ok(Series::from(out))
+    });
+    // `for x in s { … }` iterates over the elements.
+    engine.register_iterator::<Series>();
+}
+
+impl IntoIterator for Series {
+    type Item = f64;
+    type IntoIter = std::vec::IntoIter<f64>;
+    fn into_iter(self) -> Self::IntoIter {
+        self.to_vec().into_iter()
+    }
+}
+
+/// Compact text form: the first few elements and the length.
+pub fn format_series(s: &Series) -> String {
+    let v = s.as_slice();
+    let shown: Vec<String> = v.iter().take(6).map(|x| format!("{x}")).collect();
+    let more = if v.len() > 6 { ", …" } else { "" };
+    format!("Series[{}]({}{more})", v.len(), shown.join(", "))
+}

@@ -1,0 +1,18 @@
+use clap::Parser;
+
+fn main() {
+    // A panic is a bug in tickwork, never the user's fault: say so in one line, no backtrace.
+    std::panic::set_hook(Box::new(|info| {
+        let place = info.location().map(|l| format!(" at {}:{}", l.file(), l.line())).unwrap_or_default();
+        let msg = info
+            .payload()
+            .downcast_ref::<&str>()
+            .map(|s| s.to_string())
+            .or_else(|| info.payload().downcast_ref::<String>().cloned())
+            .unwrap_or_default();
+        eprintln!("tickwork: internal error{place}: {msg}\nthis is a bug in tickwork; please report it with the script that caused it");
+    }));
+    let cli = tickwork::cli::Cli::parse();
+    let code = std::panic::catch_unwind(|| tickwork::cli::main(cli)).unwrap_or(101);
+    std::process::exit(code);
+}

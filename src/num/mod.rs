@@ -1,0 +1,7 @@
+//! Numerical foundation: the `Series` vector type, SI prefixes, quadrature and root finding.
+pub mod quad;
+pub mod roots;
+pub mod series;
+pub mod si;
+
+pub use series::Series;

@@ -1,0 +1,169 @@
+//! `Series`: an f64 vector with cheap clones (shared buffer, copy on write).
+//!
+//! Scripts pass whole vectors to native code; sharing the buffer means handing a Series to a
+//! function costs nothing, and a temporary result is reused in place by the next operation.
+use std::sync::Arc;
+
+#[derive(Clone, Debug, PartialEq, Default)]
+pub struct Series(Arc<Vec<f64>>);
+
+impl From<Vec<f64>> for Series {
+    fn from(v: Vec<f64>) -> Self {
+        Series(Arc::new(v))
+    }
+}
+
+impl FromIterator<f64> for Series {
+    fn from_iter<I: IntoIterator<Item = f64>>(iter: I) -> Self {
+        Series::from(iter.into_iter().collect::<Vec<_>>())
+    }
+}
+
+impl Series {
+    pub fn as_slice(&self) -> &[f64] {
+        &self.0
+    }
+    pub fn len(&self) -> usize {
+        self.0.len()
+    }
+    pub fn is_empty(&self) -> bool {
+        self.0.is_empty()
+    }
+    pub fn to_vec(&self) -> Vec<f64> {
+        self.0.as_ref().clone()
+    }
+    /// Mutable access; copies the buffer only if it is shared.
+    pub fn make_mut(&mut self) -> &mut Vec<f64> {
+        Arc::make_mut(&mut self.0)
+    }
+
+    /// `n` points from `a` to `b` inclusive, evenly spaced. `n == 1` gives `[a]`.
+    pub fn span(a: f64, b: f64, n: usize) -> Series {
+        match n {
+            0 => Series::default(),
+            1 => Series::from(vec![a]),
+            _ => {
+                let step = (b - a) / (n - 1) as f64;
+                // The last point is set exactly so that the end of the span is `b` bit for bit.
+                (0..n).map(|k| if k == n - 1 { b } else { a + step * k as f64 }).collect()
+            }
+        }
+    }
+
+    /// `n` points from `a` to `b` inclusive, evenly spaced in log; needs a, b > 0.
+    pub fn span_log(a: f64, b: f64, n: usize) -> Result<Series, String> {
+        if !(a > 0.0 && b > 0.0) {
+            return Err(format!("span_log needs both ends > 0, got {a} and {b}"));
+        }
+        let (la, lb) = (a.ln(), b.ln());
+        Ok(Series::span(la, lb, n)
+            .as_slice()
+            .iter()
+            .enumerate()
+            .map(|(k, x)| if k == 0 { a } else if k == n - 1 { b } else { x.exp() })
+            .collect())
+    }
+
+    /// Elementwise unary map, reusing the buffer when it is not shared.
+    pub fn map_in_place(mut self, f: impl Fn(f64) -> f64) -> Series {
+        for x in self.make_mut().iter_mut() {
+            *x = f(*x);
+        }
+        self
+    }
+
+    /// Elementwise binary operation of two equal-length series; reuses whichever buffer is free.
+    pub fn zip_with(mut self, mut other: Series, f: impl Fn(f64, f64) -> f64) -> Result<Series, String> {
+        if self.len() != other.len() {
+            return Err(format!("series lengths differ: {} and {}", self.len(), other.len()));
+        }
+        if Arc::get_mut(&mut self.0).is_some() {
+            let o = other.as_slice();
+            for (x, y) in self.make_mut().iter_mut().zip(o) {
+                *x = f(*x, *y);
+            }
+            Ok(self)
+        } else {
+            let s = self.as_slice();
+            for (y, x) in other.make_mut().iter_mut().zip(s) {
+                *y = f(*x, *y);
+            }
+            Ok(other)
+        }
+    }
+
+    pub fn sum(&self) -> f64 {
+        self.0.iter().sum()
+    }
+    pub fn mean(&self) -> f64 {
+        if self.is_empty() { f64::NAN } else { self.sum() / self.len() as f64 }
+    }
+    /// Sample standard deviation (divides by n − 1), the usual estimator for Monte Carlo results.
+    pub fn stdev(&self) -> f64 {
+        let n = self.len();
+        if n < 2 {
+            return f64::NAN;
+        }
+        let m = self.mean();
+        let ss: f64 = self.0.iter().map(|x| (x - m) * (x - m)).sum();
+        (ss / (n - 1) as f64).sqrt()
+    }
+    pub fn min(&self) -> f64 {
+        self.0.iter().copied().fold(f64::NAN, f64::min)
+    }
+    pub fn max(&self) -> f64 {
+        self.0.iter().copied().fold(f64::NAN, f64::max)
+    }
+    /// Index of the smallest element (first one on ties); None for an empty series.
+    pub fn argmin(&self) -> Option<usize> {
+        self.arg_by(|a, b| a < b)
+    }
+    pub fn argmax(&self) -> Option<usize> {
+        self.arg_by(|a, b| a > b)
+    }
+    fn arg_by(&self, better: impl Fn(f64, f64) -> bool) -> Option<usize> {
+        let mut best: Option<usize> = None;
+        for (k, &x) in self.0.iter().enumerate() {
+            if x.is_nan() {
+                continue;
+            }
+            match best {
+                Some(b) if !better(x, self.0[b]) => {}
+                _ => best = Some(k),
+            }
+        }
+        best
+    }
+    /// Quantile with linear interpolation between order statistics (numpy's default
+    /// "linear" method, Hyndman & Fan 1996 definition 7). `p` in [0, 1].
+    pub fn quantile(&self, p: f64) -> Result<f64, String> {
+        if !(0.0..=1.0).contains(&p) {
+            return Err(format!("quantile p must be in [0, 1], got {p}"));
+        }
+        if self.is_empty() {
+            return Err("quantile of an empty series".into());
+        }
+        let mut v = self.to_vec();
+        if v.iter().any(|x| x.is_nan()) {
+            return Ok(f64::NAN);
+        }
+        v.sort_by(|a, b| a.partial_cmp(b).unwrap());
+        let h = (v.len() - 1) as f64 * p;
+        let lo = h.floor() as usize;
+        let hi = h.ceil() as usize;
+        Ok(v[lo] + (h - lo as f64) * (v[hi] - v[lo]))
+    }
+    /// Elements `[start, end)`; bounds are clamped to the series.
+    pub fn slice(&self, start: usize, end: usize) -> Series {
+        let end = end.min(self.len());
+        let start = start.min(end);
+        Series::from(self.0[start..end].to_vec())
+    }
+    /// Elements where `mask` is non-zero.
+    pub fn select(&self, mask: &Series) -> Result<Series, String> {
+        if mask.len() != self.len() {
+            return Err(format!("mask length {} differs from series length {}", mask.len(), self.len()));
+        }
+        Ok(self.0.iter().zip(mask.as_slice()).filter(|(_, m)| **m != 0.0).map(|(x, _)| *x).collect())
+    }
+}

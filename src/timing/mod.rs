@@ -1,0 +1,1 @@
+//! Oscillator topologies, analytic period with parasitics, error budget. Plain Rust.
