@@ -49,7 +49,7 @@ pub fn build(session: &Shared, max_ops: u64) -> Engine {
     core_api::register(&mut engine, session);
     series_api::register(&mut engine);
     report_api::register(&mut engine, session);
-    physics_api::register(&mut engine);
-    timing_api::register(&mut engine);
+    physics_api::register(&mut engine, session);
+    timing_api::register(&mut engine, session);
     engine
 }

@@ -26,6 +26,9 @@ pub struct Session {
     pub echo: bool,
     pub sandbox: Sandbox,
     pub sources: Sources,
+    /// Files the script read (process files, CSV data), in order: (path relative to the
+    /// project root, SHA-256 in hex). The report's provenance lists them.
+    pub inputs: Vec<(String, String)>,
 }
 
 impl Session {
@@ -39,7 +42,22 @@ impl Session {
             echo: true,
             sandbox,
             sources: Sources::default(),
+            inputs: Vec::new(),
         }
+    }
+
+    /// Read a data file the script names (relative to the script's folder, inside the project
+    /// root) and record it with its hash for the report's provenance.
+    pub fn read_input(&mut self, rel: &str) -> Result<String, String> {
+        use sha2::{Digest, Sha256};
+        let path = self.sandbox.readable(rel)?;
+        let bytes = std::fs::read(&path).map_err(|e| format!("cannot read '{rel}': {e}"))?;
+        let hash: String = Sha256::digest(&bytes).iter().map(|b| format!("{b:02x}")).collect();
+        let shown = path.strip_prefix(&self.sandbox.root).unwrap_or(&path).display().to_string();
+        if !self.inputs.iter().any(|(p, _)| *p == shown) {
+            self.inputs.push((shown, hash));
+        }
+        String::from_utf8(bytes).map_err(|_| format!("'{rel}' is not UTF-8 text"))
     }
 
     /// Place an output under the current section.

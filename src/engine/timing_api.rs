@@ -2,7 +2,8 @@
 use rhai::Engine;
 
 use super::docs::Doc;
+use super::session::Shared;
 
 pub const DOCS: &[Doc] = &[];
 
-pub fn register(_engine: &mut Engine) {}
+pub fn register(_engine: &mut Engine, _session: &Shared) {}
