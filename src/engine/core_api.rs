@@ -26,6 +26,10 @@ pub fn register(engine: &mut Engine, shared: &Shared) {
         }
         Ok(eng(to_f64(&x)?, unit, digits as usize))
     });
+    // Floats print in the shortest form that reads back exactly, with an exponent when very
+    // small or large (2e-12, not 0.000000000002).
+    engine.register_fn("to_string", |x: f64| format!("{x:?}"));
+    engine.register_fn("to_debug", |x: f64| format!("{x:?}"));
     engine.register_fn("si", |t: &str| -> R<f64> { parse_number(t).map_err(|e| e.into()) });
 
     let s = shared.clone();

@@ -24,6 +24,15 @@ use session::Shared;
 /// native, small enough to stop a runaway loop within seconds.
 pub const DEFAULT_MAX_OPS: u64 = 50_000_000;
 
+/// `print`: echo to the terminal and place the text in the report.
+fn print_text(session: &Shared, text: &str) {
+    let mut g = session.lock();
+    if g.echo {
+        term::out(text);
+    }
+    g.push(crate::report::Item::Text(text.to_string()));
+}
+
 /// A configured engine with every tickwork function registered, reporting into `session`.
 pub fn build(session: &Shared, max_ops: u64) -> Engine {
     let mut engine = Engine::new();
@@ -37,13 +46,11 @@ pub fn build(session: &Shared, max_ops: u64) -> Engine {
     engine.set_module_resolver(resolver::Resolver::new(session.clone()));
 
     let s = session.clone();
-    engine.on_print(move |text| {
-        let mut g = s.lock();
-        if g.echo {
-            term::out(text);
-        }
-        g.push(crate::report::Item::Text(text.to_string()));
-    });
+    engine.on_print(move |text| print_text(&s, text));
+    // Rhai turns a printed value into text with its `print` function, then calls the hook.
+    // Its own text of a float is 0.000000000002 for 2e-12; use the shortest form that reads
+    // back exactly instead.
+    engine.register_fn("print", |x: f64| format!("{x:?}"));
     engine.on_debug(|text, _src, pos| eprintln!("debug (line {}): {text}", pos.line().unwrap_or(0)));
 
     core_api::register(&mut engine, session);

@@ -350,7 +350,7 @@ impl Lexer {
                 '=' if self.last_token_was_const && at(i + 1) != '=' => {
                     // `const NAME =`: wrap the initialiser as `__override("NAME", expr)`.
                     let name = out.consts.last().map(|c| c.name.clone()).unwrap_or_default();
-                    let ins = format!("= {OVERRIDE_FN}(\"{name}\", ");
+                    let ins = format!("= {OVERRIDE_FN}(\"{name}\",");
                     out.columns.push(ln, Edit { col: i + 1, old_len: 1, new_len: ins.chars().count() });
                     code.push_str(&ins);
                     *pending_const = Some((self.brackets.len(), ln));
@@ -426,9 +426,7 @@ impl Lexer {
             }
         };
         digits(&mut i);
-        let mut is_float = false;
         if at(i) == '.' && at(i + 1).is_ascii_digit() {
-            is_float = true;
             i += 1;
             digits(&mut i);
         }
@@ -436,7 +434,6 @@ impl Lexer {
         if at(i) == 'e'
             && (at(i + 1).is_ascii_digit() || (matches!(at(i + 1), '+' | '-') && at(i + 2).is_ascii_digit()))
         {
-            is_float = true;
             i += if at(i + 1).is_ascii_digit() { 1 } else { 2 };
             digits(&mut i);
         }
@@ -470,7 +467,6 @@ impl Lexer {
         }
         let e = e0 + exp;
         let new = if e == 0 { mant } else { format!("{mant}e{e}") };
-        let _ = is_float;
         out.columns.push(ln, Edit { col: start + 1, old_len: i - start, new_len: new.chars().count() });
         code.push_str(&new);
         Ok(i)
@@ -504,8 +500,11 @@ mod tests {
         let e = p.unwrap_err();
         assert_eq!((e.line, e.col), (1, 15));
         let p = prepare("let a = 2p + q;", Some(0)).unwrap();
-        // `q` is at original col 14; in the rewritten line it is at col 17.
-        assert_eq!(p.columns.original_col(1, 17), 14);
+        // `q` is at original col 14; in the rewritten line it is at col 19.
+        assert_eq!(p.columns.original_col(1, 19), 14);
+        // `+` at rewritten col 17 is original col 12; inside `2.0e-12` maps to the literal's start.
+        assert_eq!(p.columns.original_col(1, 17), 12);
+        assert_eq!(p.columns.original_col(1, 12), 9);
     }
     #[test]
     fn prose_sections() {

@@ -48,7 +48,7 @@ impl ModuleResolver for Resolver {
         if let Some(m) = self.cache.lock().unwrap_or_else(|p| p.into_inner()).get(path) {
             return Ok(m.clone());
         }
-        let fail = |msg: String| Box::new(EvalAltResult::ErrorModuleNotFound(msg, pos));
+        let fail = |msg: String| Box::new(EvalAltResult::ErrorRuntime(msg.into(), pos));
         let (name, text) = self.load(path).map_err(fail)?;
         let prepared = prepare(&text, None).map_err(|e| {
             fail(format!("{name}:{}:{}: {}", e.line, e.col, e.message))

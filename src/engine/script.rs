@@ -1,6 +1,6 @@
 //! Running one script file: pre-pass, `--set` checks, compile, evaluate, with every error
 //! located in the original source.
-use rhai::{Engine, Scope};
+use rhai::{Dynamic, Engine, Scope};
 
 use super::errors::{from_eval, from_parse, from_prepass, ScriptError};
 use super::prepass::{prepare, Prepared};
@@ -38,10 +38,22 @@ pub fn run_source(engine: &Engine, session: &Shared, file: &str, text: &str, max
             });
         }
     }
+    evaluate(engine, session, file, &prepared, max_ops).map(|_| ())
+}
+
+/// Compile and evaluate prepared code in a fresh scope; the value of the last statement.
+fn evaluate(engine: &Engine, session: &Shared, file: &str, prepared: &Prepared, max_ops: u64) -> Result<Dynamic, ScriptError> {
     let mut ast = engine.compile(&prepared.code).map_err(|e| from_parse(&session.lock().sources, file, &e))?;
     ast.set_source(file);
     let mut scope = Scope::new();
     engine
-        .run_ast_with_scope(&mut scope, &ast)
+        .eval_ast_with_scope(&mut scope, &ast)
         .map_err(|e| from_eval(&session.lock().sources, file, &e, max_ops))
+}
+
+/// Evaluate `text` as a script and return the value of its last statement (for tests and
+/// one-off evaluations); SI literals and modules work as in a script file.
+pub fn eval_source(engine: &Engine, session: &Shared, file: &str, text: &str, max_ops: u64) -> Result<Dynamic, ScriptError> {
+    let prepared = prepare_into_session(session, file, text)?;
+    evaluate(engine, session, file, &prepared, max_ops)
 }

@@ -1,0 +1,84 @@
+//! The REPL read through a pipe: the same statements give the same output as `tickwork run`,
+//! variables and functions persist, multi-line entries continue, help shows signatures.
+mod cli_util;
+use cli_util::*;
+
+const STATEMENTS: &str = "\
+const C = 1pF;
+let dv = 1.66V;
+let i = span(1uA, 2uA, 3);
+let t = 2 * C * dv / i;
+show(\"periods\", t, \"s\");
+show(\"first\", t[0], \"s\");
+fn freq(p) {
+    1.0 / p
+}
+print(eng(freq(t[0]), \"Hz\"));
+import \"ratio\" as r;
+print(eng(r::pct(t[2], t[0]), \"%\"));
+";
+
+#[test]
+fn piped_repl_matches_batch_run() {
+    let p = Project::new();
+    p.write("same.rhai", STATEMENTS);
+    let batch = p.tickwork(&["run", "same.rhai"]);
+    assert!(batch.status.success(), "{}", stderr(&batch));
+    let repl = p.repl(STATEMENTS);
+    assert!(repl.status.success(), "{}", stderr(&repl));
+    assert_eq!(stdout(&repl), stdout(&batch));
+    // Hand calculation: 2·1 pF·1.66 V/1 µA = 3.32 µs → 301 kHz; at 2 µA the period halves (−50 %).
+    assert_eq!(stdout(&batch), "periods = n = 3, min 1.66 µs, mean 2.40 µs, max 3.32 µs\nfirst = 3.32 µs\n301 kHz\n-50.0 %\n");
+}
+
+#[test]
+fn entries_continue_and_values_print() {
+    let p = Project::new();
+    let o = p.repl("let a = [1,\n 2,\n 3];\na.len()\nlet b = 1 +\n 2;\nb\n");
+    assert!(o.status.success(), "{}", stderr(&o));
+    assert_eq!(stdout(&o), "3\n3\n");
+}
+
+#[test]
+fn errors_are_located_and_the_session_goes_on() {
+    let p = Project::new();
+    let o = p.repl("let x = 2;\nlet y = x +* 1;\nprint(x * 3);\n");
+    assert_eq!(o.status.code(), Some(1)); // an entry failed
+    assert_eq!(stdout(&o), "6\n");
+    assert!(stderr(&o).contains("repl[2]:1:"), "{}", stderr(&o));
+}
+
+#[test]
+fn help_shows_signature_units_and_description() {
+    let p = Project::new();
+    let o = p.repl("help eng\nhelp span\n");
+    let out = stdout(&o);
+    assert!(out.contains("eng(x: float, unit: string, digits: int) -> string"), "{out}");
+    assert!(out.contains("n points from a to b inclusive"), "{out}");
+    let o = p.repl("doc nosuchfn\n");
+    assert!(stderr(&o).contains("no function named 'nosuchfn'"), "{}", stderr(&o));
+}
+
+#[test]
+fn every_registered_function_is_documented() {
+    let p = Project::new();
+    let o = p.tickwork(&["defs", "--out", "defs.json"]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_str(&std::fs::read_to_string(p.path().join("defs.json")).unwrap()).unwrap();
+    let documented: std::collections::BTreeSet<String> =
+        v["functions"].as_array().unwrap().iter().map(|f| f["name"].as_str().unwrap().to_string()).collect();
+    let registered = v["registered"].as_array().unwrap();
+    assert!(registered.len() > 50, "the engine lists only {} functions", registered.len());
+    for sig in registered {
+        let sig = sig.as_str().unwrap();
+        let name = sig.split('(').next().unwrap().trim();
+        // Operators, indexers, internal markers and conversions are not script functions to document.
+        let internal = name.starts_with("__")
+            || name.starts_with("index$")
+            || name.starts_with("get$")
+            || name.starts_with("set$")
+            || !name.chars().next().unwrap().is_alphabetic()
+            || ["to_string", "to_debug", "print", "is_empty"].contains(&name);
+        assert!(internal || documented.contains(name), "'{name}' ({sig}) has no entry in a DOCS table");
+    }
+}
