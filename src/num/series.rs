@@ -64,12 +64,18 @@ impl Series {
             .collect())
     }
 
-    /// Elementwise unary map, reusing the buffer when it is not shared.
+    /// Elementwise unary map, reusing the buffer when it is not shared (a temporary) and
+    /// writing a fresh one in a single pass otherwise.
     pub fn map_in_place(mut self, f: impl Fn(f64) -> f64) -> Series {
-        for x in self.make_mut().iter_mut() {
-            *x = f(*x);
+        match Arc::get_mut(&mut self.0) {
+            Some(v) => {
+                for x in v.iter_mut() {
+                    *x = f(*x);
+                }
+                self
+            }
+            None => self.0.iter().map(|x| f(*x)).collect(),
         }
-        self
     }
 
     /// Elementwise binary operation of two equal-length series; reuses whichever buffer is free.
@@ -77,18 +83,18 @@ impl Series {
         if self.len() != other.len() {
             return Err(format!("series lengths differ: {} and {}", self.len(), other.len()));
         }
-        if Arc::get_mut(&mut self.0).is_some() {
-            let o = other.as_slice();
-            for (x, y) in self.make_mut().iter_mut().zip(o) {
+        if let Some(v) = Arc::get_mut(&mut self.0) {
+            for (x, y) in v.iter_mut().zip(other.as_slice()) {
                 *x = f(*x, *y);
             }
             Ok(self)
-        } else {
-            let s = self.as_slice();
-            for (y, x) in other.make_mut().iter_mut().zip(s) {
+        } else if let Some(v) = Arc::get_mut(&mut other.0) {
+            for (y, x) in v.iter_mut().zip(self.as_slice()) {
                 *y = f(*x, *y);
             }
             Ok(other)
+        } else {
+            Ok(self.0.iter().zip(other.as_slice()).map(|(x, y)| f(*x, *y)).collect())
         }
     }
 
