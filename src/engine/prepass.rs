@@ -95,6 +95,7 @@ pub fn prepare(src: &str, section_base: Option<usize>) -> Result<Prepared, Prepa
     let mut code = String::with_capacity(src.len() + 64);
     let mut lx = Lexer::default();
     let mut pending_const: Option<(usize, usize)> = None; // (depth, line) of a `const X =` awaiting `;`
+    let mut prose_open = false;
     for (k, line) in lines.iter().enumerate() {
         let ln = k + 1;
         if k > 0 {
@@ -104,7 +105,10 @@ pub fn prepare(src: &str, section_base: Option<usize>) -> Result<Prepared, Prepa
             ProseLine::First | ProseLine::Rest if !lx.in_block_comment() && !lx.in_string() => {
                 let text = line.trim_start().strip_prefix("///").unwrap_or("");
                 let text = text.strip_prefix(' ').unwrap_or(text);
-                if prose_kind[k] == ProseLine::First {
+                // A block whose first line sat inside a string or comment starts here.
+                let starts = prose_kind[k] == ProseLine::First || !prose_open;
+                prose_open = true;
+                if starts {
                     out.prose.push(Prose { line: ln, markdown: String::new() });
                     if let Some(base) = section_base
                         && lx.at_statement_level()
@@ -113,8 +117,9 @@ pub fn prepare(src: &str, section_base: Option<usize>) -> Result<Prepared, Prepa
                         code.push_str(&format!("{SECTION_FN}({n});"));
                     }
                 }
-                let md = &mut out.prose.last_mut().expect("prose block started").markdown;
-                if !md.is_empty() || prose_kind[k] == ProseLine::Rest {
+                let Some(last) = out.prose.last_mut() else { continue };
+                let md = &mut last.markdown;
+                if !starts {
                     md.push('\n');
                 }
                 md.push_str(text.trim_end_matches('\r'));
@@ -122,6 +127,7 @@ pub fn prepare(src: &str, section_base: Option<usize>) -> Result<Prepared, Prepa
             }
             _ => {}
         }
+        prose_open = false;
         lx.line(line, ln, &mut code, &mut out, &mut pending_const)?;
     }
     if pending_const.is_some() {
