@@ -71,15 +71,11 @@ macro_rules! arith {
     }};
 }
 
+/// A comparison gives a mask: 1.0 where it holds, 0.0 where not.
 macro_rules! compare {
     ($engine:ident, $op:literal, $f:expr) => {{
         let f = $f;
-        let m = move |x: f64, y: f64| if f(x, y) { 1.0 } else { 0.0 };
-        $engine.register_fn($op, move |a: Series, b: Series| lift(a.zip_with(b, m)));
-        $engine.register_fn($op, move |a: Series, b: f64| a.map_in_place(|x| m(x, b)));
-        $engine.register_fn($op, move |a: Series, b: i64| a.map_in_place(|x| m(x, b as f64)));
-        $engine.register_fn($op, move |a: f64, b: Series| b.map_in_place(|y| m(a, y)));
-        $engine.register_fn($op, move |a: i64, b: Series| b.map_in_place(|y| m(a as f64, y)));
+        arith!($engine, $op, move |x: f64, y: f64| if f(x, y) { 1.0 } else { 0.0 });
     }};
 }
 
