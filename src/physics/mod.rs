@@ -1,2 +1,13 @@
 //! Device physics: constants, process files, MOSFET, capacitors, resistors, switches,
 //! mirrors, comparators, mismatch. Plain Rust, no Rhai types.
+pub mod capacitor;
+pub mod comparator;
+pub mod constants;
+pub mod ekv;
+pub mod junction;
+pub mod mirror;
+pub mod mismatch;
+pub mod mosfet;
+pub mod process;
+pub mod resistor;
+pub mod switch;
