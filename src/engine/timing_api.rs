@@ -8,14 +8,20 @@ use super::value::to_f64;
 use crate::num::si::eng;
 use crate::num::Series;
 use crate::timing::budget::budget;
-use crate::timing::keys::{def, Dflt, Kind};
+use crate::physics::mirror::MirrorKind;
+use crate::physics::process::Process;
+use crate::timing::from_process::{osc_from, Choices};
+use crate::timing::keys::{def, Dflt, Kind, Mode};
 use crate::timing::{Cycle, Mask, Osc};
 
 type R<T> = Result<T, Box<EvalAltResult>>;
 
 pub const DOCS: &[Doc] = &[
     Doc { name: "osc", sig: "osc(kind: string, params: map) -> Oscillator", summary: "an oscillator from explicit numbers; kinds \"rc-inverter\", \"schmitt\", \"window\", \"reset\", \"pingpong\"; keys c (F), i (A), r (Ω), v_lo, v_hi, vdd (V), temp (°C) and one key per parasitic (default ideal); osc_keys(kind) lists them" },
-    Doc { name: "osc_keys", sig: "osc_keys(kind: string) -> array", summary: "the keys an oscillator kind accepts, each as \"name (unit): meaning [default]\"" },
+    Doc { name: "osc_from", sig: "osc_from(process: Process|string, kind: string, params: map) -> Oscillator", summary: "an oscillator whose parts are devices of a process (a process object, or a built-in name such as \"demo180\"): mirrors, switches, input-pair comparators, process capacitor; device sizes mirror_w, mirror_l, sw_w, sw_l, cmp_w, cmp_l (m), cmp_itail (A), cmp_cload (F); names cap_type (default \"mim\") and mirror (\"simple\", \"cascode\", \"wide-swing\"; default \"cascode\"); osc_keys(kind, \"process\") lists the keys" },
+    Doc { name: "osc_keys", sig: "osc_keys(kind: string) -> array", summary: "the keys an oscillator kind accepts in osc(), each as \"name (unit): meaning [default]\"" },
+    Doc { name: "osc_keys", sig: "osc_keys(kind: string, \"process\") -> array", summary: "the numeric keys of osc_from() for that kind" },
+    Doc { name: "corners", sig: "o.corners() -> array", summary: "the corners the oscillator can be evaluated at (o.at(#{corner: name}))" },
     Doc { name: "ideal_period", sig: "o.ideal_period() -> float", summary: "the textbook period of the topology from its basic keys, s" },
     Doc { name: "period", sig: "o.period() -> float", summary: "the period with every parasitic, in periodic steady state, s" },
     Doc { name: "frequency", sig: "o.frequency() -> float", summary: "1 / period with every parasitic, Hz" },
@@ -144,11 +150,11 @@ fn describe(o: &Osc) -> String {
             }
         })
         .collect();
-    format!("{} oscillator ({}; {} °C, {} V, {}): {}", o.kind().name(), o.origin, o.env.temp_c, o.env.vdd, o.env.corner, given.join(", "))
+    format!("{} oscillator ({}; {} °C, {} V, {}): {}", o.kind().name(), o.origin(), o.env.temp_c, o.env.vdd, o.env.corner, given.join(", "))
 }
 
-fn key_help(k: Kind) -> Array {
-    k.keys()
+fn key_help(k: Kind, mode: Mode) -> Array {
+    k.keys_for(mode)
         .iter()
         .filter_map(|n| def(n))
         .map(|d| {
@@ -163,6 +169,21 @@ fn key_help(k: Kind) -> Array {
         .collect()
 }
 
+/// `osc_from`: the name keys (cap_type, mirror) taken out, the rest numbers.
+fn from_process(pr: &Process, k: &str, mut m: Map) -> R<Osc> {
+    let kind = kind(k)?;
+    let what = format!("osc_from(\"{k}\")");
+    let mut name = |key: &str, default: &str| -> R<String> {
+        match m.remove(key) {
+            None => Ok(default.to_string()),
+            Some(v) => v.into_string().map_err(|t| format!("{what}: key '{key}' must be a string, found {t}").into()),
+        }
+    };
+    let cap_type = name("cap_type", "mim")?;
+    let mirror = lift(MirrorKind::parse(&name("mirror", "cascode")?).map_err(|e| format!("{what}: key 'mirror': {e}")))?;
+    lift(osc_from(pr, kind, Choices { cap_type, mirror }, &pairs(&what, &m)?))
+}
+
 pub fn register(engine: &mut Engine, _session: &Shared) {
     engine.register_type_with_name::<Osc>("Oscillator");
     engine.register_fn("to_string", |o: &mut Osc| describe(o));
@@ -172,7 +193,17 @@ pub fn register(engine: &mut Engine, _session: &Shared) {
         let kind = kind(k)?;
         lift(Osc::new(kind, &pairs(&format!("osc(\"{k}\")"), &m)?))
     });
-    engine.register_fn("osc_keys", |k: &str| -> R<Array> { Ok(key_help(kind(k)?)) });
+    engine.register_fn("osc_keys", |k: &str| -> R<Array> { Ok(key_help(kind(k)?, Mode::Explicit)) });
+    engine.register_fn("osc_keys", |k: &str, mode: &str| -> R<Array> {
+        match mode {
+            "process" => Ok(key_help(kind(k)?, Mode::Process)),
+            "explicit" => Ok(key_help(kind(k)?, Mode::Explicit)),
+            _ => Err(format!("osc_keys: the second argument must be \"explicit\" or \"process\", got \"{mode}\"").into()),
+        }
+    });
+    engine.register_fn("osc_from", |pr: Process, k: &str, m: Map| -> R<Osc> { from_process(&pr, k, m) });
+    engine.register_fn("osc_from", |name: &str, k: &str, m: Map| -> R<Osc> { from_process(&lift(Process::builtin(name))?, k, m) });
+    engine.register_fn("corners", |o: &mut Osc| -> Array { o.corners().into_iter().map(Dynamic::from).collect() });
 
     engine.register_fn("ideal_period", |o: &mut Osc| -> R<f64> { lift(o.ideal_period()) });
     engine.register_fn("period", |o: &mut Osc| -> R<f64> { lift(o.period()) });

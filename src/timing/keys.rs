@@ -16,7 +16,40 @@ pub enum Kind {
 
 pub const KINDS: [Kind; 5] = [Kind::RcInverter, Kind::Schmitt, Kind::Window, Kind::Reset, Kind::PingPong];
 
+/// Where the parts come from: explicit numbers (`osc`) or the devices of a process (`osc_from`).
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Mode {
+    Explicit,
+    Process,
+}
+
 impl Kind {
+    /// Keys this kind accepts in `mode`.
+    pub fn keys_for(self, mode: Mode) -> &'static [&'static str] {
+        match mode {
+            Mode::Explicit => self.keys(),
+            Mode::Process => match self {
+                Kind::RcInverter => &[],
+                Kind::Schmitt => &[
+                    "c", "i", "vdd", "temp", "ratio_n", "ratio_p", "mirror_w", "mirror_l", "sw_w", "sw_l", "c_in",
+                    "i_mismatch", "vos_hi", "vos_lo", "t_cmp", "t_logic", "t_sw",
+                ],
+                Kind::Window => &[
+                    "c", "i", "v_lo", "v_hi", "vdd", "temp", "mirror_w", "mirror_l", "sw_w", "sw_l", "cmp_w", "cmp_l",
+                    "cmp_itail", "cmp_cload", "cmp_vsw", "t_cmp", "i_mismatch", "vos_hi", "vos_lo", "t_latch", "t_logic", "t_sw",
+                ],
+                Kind::Reset => &[
+                    "c", "i", "v_lo", "v_hi", "vdd", "temp", "mirror_w", "mirror_l", "sw_w", "sw_l", "cmp_w", "cmp_l",
+                    "cmp_itail", "cmp_cload", "cmp_vsw", "t_cmp", "vos", "t_logic", "t_reset",
+                ],
+                Kind::PingPong => &[
+                    "c", "i", "v_lo", "v_hi", "vdd", "temp", "mirror_w", "mirror_l", "sw_w", "sw_l", "cmp_w", "cmp_l",
+                    "cmp_itail", "cmp_cload", "cmp_vsw", "t_cmp", "vos", "c_mismatch", "t_latch", "t_logic", "t_sw",
+                ],
+            },
+        }
+    }
+
     pub fn name(self) -> &'static str {
         match self {
             Kind::RcInverter => "rc-inverter",
@@ -39,21 +72,21 @@ impl Kind {
             Kind::Schmitt => &[
                 "c", "i", "r", "v_lo", "v_hi", "vdd", "temp", "vtn", "vtp", "ratio_n", "ratio_p", "tc_vt", "tc_i",
                 "tc_r", "tc_c", "c_vc1", "c_vc2", "c_swn", "c_swp", "sw_phi", "sw_m", "c_in", "r_out", "v_ds_ref",
-                "i_mismatch", "vos_hi", "vos_lo", "t_cmp", "cmp_gbw", "cmp_vsw", "t_logic", "t_sw",
+                "i_mismatch", "vos_hi", "vos_lo", "t_cmp", "cmp_gbw", "cmp_a0", "cmp_slew", "cmp_vsw", "t_logic", "t_sw",
             ],
             Kind::Window => &[
                 "c", "i", "v_lo", "v_hi", "vdd", "temp", "tc_i", "tc_c", "c_vc1", "c_vc2", "c_swn", "c_swp", "sw_phi",
-                "sw_m", "c_in", "r_out", "v_ds_ref", "i_mismatch", "vos_hi", "vos_lo", "t_cmp", "cmp_gbw", "cmp_vsw",
+                "sw_m", "c_in", "r_out", "v_ds_ref", "i_mismatch", "vos_hi", "vos_lo", "t_cmp", "cmp_gbw", "cmp_a0", "cmp_slew", "cmp_vsw",
                 "t_latch", "t_logic", "t_sw",
             ],
             Kind::Reset => &[
                 "c", "i", "v_lo", "v_hi", "vdd", "temp", "tc_i", "tc_c", "c_vc1", "c_vc2", "c_swn", "c_swp", "sw_phi",
-                "sw_m", "c_in", "r_out", "v_ds_ref", "vos", "t_cmp", "cmp_gbw", "cmp_vsw", "t_logic", "t_reset",
+                "sw_m", "c_in", "r_out", "v_ds_ref", "vos", "t_cmp", "cmp_gbw", "cmp_a0", "cmp_slew", "cmp_vsw", "t_logic", "t_reset",
                 "r_reset",
             ],
             Kind::PingPong => &[
                 "c", "i", "v_lo", "v_hi", "vdd", "temp", "tc_i", "tc_c", "c_vc1", "c_vc2", "c_swn", "c_swp", "sw_phi",
-                "sw_m", "c_in", "r_out", "v_ds_ref", "c_mismatch", "vos", "t_cmp", "cmp_gbw", "cmp_vsw", "t_latch",
+                "sw_m", "c_in", "r_out", "v_ds_ref", "c_mismatch", "vos", "t_cmp", "cmp_gbw", "cmp_a0", "cmp_slew", "cmp_vsw", "t_latch",
                 "t_logic", "t_sw", "r_reset",
             ],
         }
@@ -123,9 +156,9 @@ pub const KEYS: &[KeyDef] = &[
     k!("tc_vt", "V/K", Value(0.0), -0.1, 0.1, false, None, "temperature coefficient of vtn and vtp"),
     k!("tc_i", "1/K", Value(0.0), -0.1, 0.1, false, None, "linear tempco of the current i about 27 °C"),
     k!("tc_r", "1/K", Value(0.0), -0.1, 0.1, false, None, "linear tempco of the resistor r about 27 °C"),
-    k!("tc_c", "1/K", Value(0.0), -0.1, 0.1, false, None, "linear tempco of the capacitor c about 27 °C"),
-    k!("c_vc1", "1/V", Value(0.0), -1.0, 1.0, false, Some(P::CapVc), "capacitor C(V) = c·(1 + c_vc1·V + c_vc2·V²)"),
-    k!("c_vc2", "1/V²", Value(0.0), -1.0, 1.0, false, Some(P::CapVc), "second-order capacitor voltage coefficient"),
+    k!("tc_c", "1/K", Value(0.0), -0.01, 0.01, false, None, "linear tempco of the capacitor c about 27 °C"),
+    k!("c_vc1", "1/V", Value(0.0), -0.1, 0.1, false, Some(P::CapVc), "capacitor C(V) = c·(1 + c_vc1·V + c_vc2·V²)"),
+    k!("c_vc2", "1/V²", Value(0.0), -0.1, 0.1, false, Some(P::CapVc), "second-order capacitor voltage coefficient"),
     k!("c_swn", "F", Value(0.0), 0.0, 1e-6, false, Some(P::SwitchCap), "zero-bias n-junction capacitance of the switches on the node (reverse bias V)"),
     k!("c_swp", "F", Value(0.0), 0.0, 1e-6, false, Some(P::SwitchCap), "zero-bias p-junction capacitance of the switches on the node (reverse bias vdd − V)"),
     k!("sw_phi", "V", Value(0.8), 0.0, 5.0, true, Some(P::SwitchCap), "junction built-in potential"),
@@ -140,12 +173,23 @@ pub const KEYS: &[KeyDef] = &[
     k!("vos", "V", Value(0.0), -1.0, 1.0, false, Some(P::Offset), "comparator offset / threshold shift"),
     k!("t_cmp", "s", Value(0.0), 0.0, 1.0, false, Some(P::CmpDelay), "fixed part of the comparator delay"),
     k!("cmp_gbw", "Hz", Value(INF), 0.0, INF, true, Some(P::CmpDelay), "comparator gain-bandwidth (ramp-slope dependent delay)"),
+    k!("cmp_a0", "1", Value(1e4), 1.0, 1e12, true, Some(P::CmpDelay), "comparator DC gain (V/V)"),
+    k!("cmp_slew", "V/s", Value(INF), 0.0, INF, true, Some(P::CmpDelay), "comparator output slew rate"),
     k!("cmp_vsw", "V", Derived, 0.0, 100.0, true, Some(P::CmpDelay), "comparator output swing to switch the latch (default vdd/2)"),
     k!("t_latch", "s", Value(0.0), 0.0, 1.0, false, Some(P::LogicDelay), "latch (flip-flop) delay"),
     k!("t_logic", "s", Value(0.0), 0.0, 1.0, false, Some(P::LogicDelay), "logic (inverter, driver) delay"),
     k!("t_sw", "s", Value(0.0), 0.0, 1.0, false, Some(P::SwitchDelay), "switch turn-over time"),
     k!("t_reset", "s", Value(0.0), 0.0, 1.0, false, Some(P::Reset), "reset pulse width"),
     k!("r_reset", "Ω", Value(0.0), 0.0, 1e12, false, Some(P::Reset), "on-resistance of the reset switch"),
+    // Device sizes of oscillators built from a process (osc_from).
+    k!("mirror_w", "m", Value(4e-6), 0.0, 1e-3, true, None, "width of the unit mirror device (process models)"),
+    k!("mirror_l", "m", Value(2e-6), 0.0, 1e-3, true, None, "length of the mirror devices (process models)"),
+    k!("sw_w", "m", Value(1e-6), 0.0, 1e-3, true, None, "width of the NMOS switches; PMOS switches are twice as wide (process models)"),
+    k!("sw_l", "m", Value(0.18e-6), 0.0, 1e-3, true, None, "length of the switches (process models)"),
+    k!("cmp_w", "m", Value(4e-6), 0.0, 1e-3, true, None, "width of each comparator input device (process models)"),
+    k!("cmp_l", "m", Value(1e-6), 0.0, 1e-3, true, None, "length of the comparator input devices (process models)"),
+    k!("cmp_itail", "A", Value(2e-6), 0.0, 1.0, true, None, "comparator tail current (process models)"),
+    k!("cmp_cload", "F", Value(20e-15), 0.0, 1e-9, true, None, "load capacitance of the comparator's first stage (process models)"),
 ];
 
 pub fn def(name: &str) -> Option<&'static KeyDef> {
@@ -157,6 +201,7 @@ pub fn def(name: &str) -> Option<&'static KeyDef> {
 #[derive(Clone, Debug, PartialEq)]
 pub struct Params {
     pub kind: Kind,
+    pub mode: Mode,
     given: BTreeMap<&'static str, f64>,
 }
 
@@ -164,20 +209,29 @@ impl Params {
     /// Check `pairs` against the keys of `kind`: unknown keys (listing the valid ones),
     /// values out of range (naming the key and range), missing required keys.
     pub fn new(kind: Kind, pairs: &[(String, f64)]) -> Result<Params, String> {
+        Params::new_in(kind, Mode::Explicit, pairs)
+    }
+
+    /// As `new`, for the keys of `mode`.
+    pub fn new_in(kind: Kind, mode: Mode, pairs: &[(String, f64)]) -> Result<Params, String> {
+        let keys = kind.keys_for(mode);
+        if keys.is_empty() {
+            return Err(format!("osc_from: a \"{}\" oscillator cannot be built from process models yet; use osc(\"{}\", #{{...}}) with explicit numbers", kind.name(), kind.name()));
+        }
         let mut given = BTreeMap::new();
         for (k, v) in pairs {
-            let Some(name) = kind.keys().iter().copied().find(|n| n == k) else {
+            let Some(name) = keys.iter().copied().find(|n| n == k) else {
                 return Err(format!(
                     "osc(\"{}\"): unknown key '{k}'; valid keys are: {}",
                     kind.name(),
-                    kind.keys().join(", ")
+                    keys.join(", ")
                 ));
             };
             let d = def(name).ok_or_else(|| format!("internal: key '{name}' has no definition"))?;
             check_range(kind, d, *v)?;
             given.insert(name, *v);
         }
-        let p = Params { kind, given };
+        let p = Params { kind, mode, given };
         p.check_required()?;
         Ok(p)
     }
@@ -189,7 +243,7 @@ impl Params {
             all.retain(|(a, _)| a != k);
             all.push((k.clone(), *v));
         }
-        Params::new(self.kind, &all)
+        Params::new_in(self.kind, self.mode, &all)
     }
 
     fn check_required(&self) -> Result<(), String> {
@@ -217,6 +271,10 @@ impl Params {
                 }
                 let explicit = self.has("v_lo") || self.has("v_hi");
                 let derived = self.has("vtn") || self.has("vtp");
+                if self.mode == Mode::Process {
+                    need("i")?;
+                    return Ok(());
+                }
                 if explicit && derived {
                     return Err(format!("osc(\"{kind}\"): give the thresholds either as 'v_lo'/'v_hi' or through 'vtn'/'vtp', not both"));
                 }

@@ -6,8 +6,8 @@
 //! plug in alike. Every period is evaluated under a `Mask` of parasitics: the empty mask is
 //! the ideal circuit, the full mask the real one; the error budget compares masks.
 pub mod budget;
-pub mod delay;
 pub mod env;
+pub mod from_process;
 pub mod keys;
 pub mod osc;
 pub mod parasitic;

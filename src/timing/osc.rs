@@ -2,31 +2,62 @@
 use std::sync::Arc;
 
 use super::env::Env;
-use super::keys::{Kind, Params};
+use super::keys::{Kind, Mode, Params};
 use super::parasitic::{Mask, Parasitic};
 use super::parts::Parts;
 use super::topology;
 
-/// Builds the parts from the parameters (explicit numbers, or physics models of a process).
-pub type Builder = Arc<dyn Fn(&Params) -> Result<Parts, String> + Send + Sync>;
+/// Where the parts come from: explicit numbers, or the devices of a process.
+pub trait Origin: Send + Sync {
+    /// What the parts are made of ("explicit numbers", or the process name).
+    fn name(&self) -> String;
+    fn mode(&self) -> Mode;
+    /// The parts for these parameters at this corner.
+    fn build(&self, p: &Params, corner: &str) -> Result<Parts, String>;
+    /// Corners known; the first is the default.
+    fn corners(&self) -> Vec<String>;
+    /// Temperature (°C) and supply (V) a corner itself fixes, if any.
+    fn corner_point(&self, corner: &str) -> Option<(f64, f64)>;
+    /// Parasitics the parts carry whatever the keys say (physics-model parts).
+    fn inherent(&self, p: &Params) -> Vec<Parasitic>;
+}
+
+struct Explicit;
+
+impl Origin for Explicit {
+    fn name(&self) -> String {
+        "explicit numbers".into()
+    }
+    fn mode(&self) -> Mode {
+        Mode::Explicit
+    }
+    fn build(&self, p: &Params, _corner: &str) -> Result<Parts, String> {
+        Parts::explicit(p)
+    }
+    fn corners(&self) -> Vec<String> {
+        vec!["typical".into()]
+    }
+    fn corner_point(&self, _corner: &str) -> Option<(f64, f64)> {
+        None
+    }
+    fn inherent(&self, _p: &Params) -> Vec<Parasitic> {
+        vec![]
+    }
+}
 
 #[derive(Clone)]
 pub struct Osc {
     pub params: Params,
     pub env: Env,
     pub parts: Parts,
-    builder: Builder,
-    /// What the parts are made of ("explicit numbers", or the process name).
-    pub origin: String,
+    origin: Arc<dyn Origin>,
     /// Parasitics the parts carry whatever the keys say (physics-model parts).
     pub inherent: Vec<Parasitic>,
-    /// Corners the origin knows; an explicit-number oscillator knows only "typical".
-    pub corners: Vec<String>,
 }
 
 impl std::fmt::Debug for Osc {
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
-        write!(f, "Osc({}, {:?}, {:?}, {})", self.kind().name(), self.params, self.env, self.origin)
+        write!(f, "Osc({}, {:?}, {:?}, {})", self.kind().name(), self.params, self.env, self.origin.name())
     }
 }
 
@@ -75,23 +106,21 @@ impl Cycle {
 impl Osc {
     /// An oscillator from explicit numbers.
     pub fn new(kind: Kind, pairs: &[(String, f64)]) -> Result<Osc, String> {
-        let builder: Builder = Arc::new(|p: &Params| Ok(Parts::explicit(p)));
-        Osc::with_builder(kind, pairs, builder, "explicit numbers".into(), vec![], vec!["typical".into()])
+        Osc::from_origin(kind, pairs, Arc::new(Explicit))
     }
 
-    /// An oscillator whose parts come from `builder` (e.g. physics models of a process).
-    pub fn with_builder(
-        kind: Kind,
-        pairs: &[(String, f64)],
-        builder: Builder,
-        origin: String,
-        inherent: Vec<Parasitic>,
-        corners: Vec<String>,
-    ) -> Result<Osc, String> {
-        let params = Params::new(kind, pairs)?;
-        let parts = builder(&params)?;
-        let env = Env { temp_c: params.get("temp"), vdd: params.get("vdd"), corner: corners.first().cloned().unwrap_or_else(|| "typical".into()) };
-        let o = Osc { params, env, parts, builder, origin, inherent, corners };
+    /// An oscillator whose parts come from `origin` (e.g. physics models of a process).
+    pub fn from_origin(kind: Kind, pairs: &[(String, f64)], origin: Arc<dyn Origin>) -> Result<Osc, String> {
+        let params = Params::new_in(kind, origin.mode(), pairs)?;
+        let corner = origin.corners().first().cloned().unwrap_or_else(|| "typical".into());
+        Osc::assemble(params, corner, origin)
+    }
+
+    fn assemble(params: Params, corner: String, origin: Arc<dyn Origin>) -> Result<Osc, String> {
+        let parts = origin.build(&params, &corner)?;
+        let env = Env { temp_c: params.get("temp"), vdd: params.get("vdd"), corner };
+        let inherent = origin.inherent(&params);
+        let o = Osc { params, env, parts, origin, inherent };
         o.check()?;
         Ok(o)
     }
@@ -100,18 +129,41 @@ impl Osc {
         self.params.kind
     }
 
-    /// The same oscillator with some keys changed.
-    pub fn with(&self, pairs: &[(String, f64)]) -> Result<Osc, String> {
-        let params = self.params.with(pairs)?;
-        let parts = (self.builder)(&params)?;
-        let env = Env { temp_c: params.get("temp"), vdd: params.get("vdd"), corner: self.env.corner.clone() };
-        let o = Osc { params, env, parts, ..self.clone() };
-        o.check()?;
-        Ok(o)
+    /// What the parts are made of.
+    pub fn origin(&self) -> String {
+        self.origin.name()
     }
 
-    /// The same oscillator at another temperature (°C), supply (V) and/or corner.
+    /// Corners this oscillator can be evaluated at.
+    pub fn corners(&self) -> Vec<String> {
+        self.origin.corners()
+    }
+
+    /// The same oscillator with some keys changed.
+    pub fn with(&self, pairs: &[(String, f64)]) -> Result<Osc, String> {
+        Osc::assemble(self.params.with(pairs)?, self.env.corner.clone(), self.origin.clone())
+    }
+
+    /// The same oscillator at another temperature (°C), supply (V) and/or corner. A corner that
+    /// fixes its own temperature and supply brings them along unless they are given here.
     pub fn at(&self, temp: Option<f64>, vdd: Option<f64>, corner: Option<&str>) -> Result<Osc, String> {
+        let mut corner_name = self.env.corner.clone();
+        let (mut temp, mut vdd) = (temp, vdd);
+        if let Some(c) = corner {
+            let known = self.origin.corners();
+            if !known.iter().any(|k| k == c) {
+                return Err(format!(
+                    "corner '{c}' is not known to this oscillator (parts from {}); known corners: {}",
+                    self.origin.name(),
+                    known.join(", ")
+                ));
+            }
+            if let Some((t, v)) = self.origin.corner_point(c) {
+                temp = temp.or(Some(t));
+                vdd = vdd.or(Some(v));
+            }
+            corner_name = c.to_string();
+        }
         let mut pairs = Vec::new();
         if let Some(t) = temp {
             pairs.push(("temp".to_string(), t));
@@ -119,18 +171,7 @@ impl Osc {
         if let Some(v) = vdd {
             pairs.push(("vdd".to_string(), v));
         }
-        let mut o = self.with(&pairs)?;
-        if let Some(c) = corner {
-            if !self.corners.iter().any(|k| k == c) {
-                return Err(format!(
-                    "corner '{c}' is not known to this oscillator (parts from {}); known corners: {}",
-                    self.origin,
-                    self.corners.join(", ")
-                ));
-            }
-            o.env.corner = c.to_string();
-        }
-        Ok(o)
+        Osc::assemble(self.params.with(&pairs)?, corner_name, self.origin.clone())
     }
 
     /// Parasitics present in this oscillator (given a non-ideal value, or inherent to its parts),

@@ -6,9 +6,13 @@
 use std::fmt::Debug;
 use std::sync::Arc;
 
-use super::delay::{junction_cap, ramp_delay};
 use super::env::Env;
-use super::keys::Params;
+use super::keys::{Kind, Params};
+use crate::physics::capacitor::Capacitor;
+use crate::physics::comparator::{Comparator, ComparatorSpec};
+use crate::physics::junction::junction_cap;
+use crate::physics::mirror::Mirror;
+use crate::physics::switch::Switch;
 
 /// The timing capacitor.
 pub trait CapPart: Send + Sync + Debug {
@@ -54,54 +58,106 @@ pub struct Parts {
     pub cmp_hi: Arc<dyn ComparatorPart>,
     /// Comparator at the low threshold (window; the Schmitt trigger's second threshold).
     pub cmp_lo: Arc<dyn ComparatorPart>,
+    /// On-resistance of the reset switch (reset, ping-pong), Ω; 0 is an ideal switch.
+    pub r_reset: f64,
+    /// Thresholds (v_lo, v_hi) fixed by the parts (a process Schmitt trigger), else None.
+    pub levels: Option<(f64, f64)>,
 }
 
 impl Parts {
     /// Parts made from the explicit numbers of `p`.
-    pub fn explicit(p: &Params) -> Parts {
+    pub fn explicit(p: &Params) -> Result<Parts, String> {
         let i = p.get("i");
         let mirror = |high_side: bool, scale: f64| MirrorOut { i: i * scale, tc: p.get("tc_i"), r_out: p.get("r_out"), v_ds_ref: p.get("v_ds_ref"), high_side };
-        let cmp = |vos: &str, c_in: f64| ExplicitComparator {
-            vos: p.get(vos),
-            c_in,
-            t_fixed: p.get("t_cmp"),
-            gbw: p.get("cmp_gbw"),
-            v_sw: p.get("cmp_vsw"),
-        };
         let (hi, lo) = match p.kind {
-            super::keys::Kind::Window => ("vos_hi", "vos_lo"),
-            super::keys::Kind::Schmitt => ("vos_hi", "vos_lo"),
+            Kind::Window | Kind::Schmitt => ("vos_hi", "vos_lo"),
             _ => ("vos", "vos"),
         };
         // The Schmitt trigger is one element: its input capacitance is counted once (on cmp_hi).
-        let c_in_lo = if p.kind == super::keys::Kind::Window { p.get("c_in") } else { 0.0 };
-        Parts {
-            cap: Arc::new(LinearCap { c: p.get("c"), vc1: p.get("c_vc1"), vc2: p.get("c_vc2"), tc: p.get("tc_c") }),
+        let c_in_lo = if p.kind == Kind::Window { p.get("c_in") } else { 0.0 };
+        Ok(Parts {
+            cap: Arc::new(Capacitor::new(p.get("c"), p.get("c_vc1"), p.get("c_vc2"), p.get("tc_c"), 0.0, super::env::T_REF_C)?),
             node: Arc::new(SwitchJunctions { c_n: p.get("c_swn"), c_p: p.get("c_swp"), phi: p.get("sw_phi"), m: p.get("sw_m") }),
             charge: Arc::new(mirror(true, 1.0)),
             discharge: Arc::new(mirror(false, 1.0 + p.get("i_mismatch"))),
-            cmp_hi: Arc::new(cmp(hi, p.get("c_in"))),
-            cmp_lo: Arc::new(cmp(lo, c_in_lo)),
-        }
+            cmp_hi: explicit_comparator(p, hi, p.get("c_in"))?,
+            cmp_lo: explicit_comparator(p, lo, c_in_lo)?,
+            r_reset: p.get("r_reset"),
+            levels: None,
+        })
     }
 }
 
-/// Capacitor with voltage and temperature coefficients.
-#[derive(Clone, Debug)]
-pub struct LinearCap {
-    pub c: f64,
-    pub vc1: f64,
-    pub vc2: f64,
-    pub tc: f64,
+/// A comparator from explicit numbers: the physics layer's single-pole, slew-limited model when
+/// a gain-bandwidth is given, else a fixed delay.
+fn explicit_comparator(p: &Params, vos: &str, c_in: f64) -> Result<Arc<dyn ComparatorPart>, String> {
+    let gbw = p.get("cmp_gbw");
+    if gbw.is_infinite() {
+        return Ok(Arc::new(FixedComparator { vos: p.get(vos), c_in, t0: p.get("t_cmp") }));
+    }
+    let v_swing = if p.has("cmp_vsw") { p.get("cmp_vsw") } else { 0.5 * p.get("vdd") };
+    let slew = p.get("cmp_slew");
+    let spec = ComparatorSpec {
+        a0: p.get("cmp_a0"),
+        gbw,
+        // The physics model needs a finite slew rate; "unlimited" is the largest float.
+        slew: if slew.is_finite() { slew } else { f64::MAX },
+        v_swing,
+        t0: p.get("t_cmp"),
+        offset: p.get(vos),
+        sigma_offset: 0.0,
+        c_in,
+        hyst: 0.0,
+    };
+    Ok(Arc::new(Comparator::new(spec)?))
 }
 
-impl CapPart for LinearCap {
+impl CapPart for Capacitor {
     fn nominal(&self, env: &Env) -> f64 {
-        self.c * env.tc_factor(self.tc)
+        self.c(0.0, env.temp_c)
     }
-    /// C(V) = C0·(1 + vc1·V + vc2·V²) (common practice: polynomial voltage coefficient).
     fn at(&self, v: f64, env: &Env) -> f64 {
-        self.nominal(env) * (1.0 + self.vc1 * v + self.vc2 * v * v)
+        self.c(v, env.temp_c)
+    }
+}
+
+impl ComparatorPart for Comparator {
+    fn offset(&self, _env: &Env) -> f64 {
+        Comparator::offset(self)
+    }
+    fn input_cap(&self, v_cm: f64, _env: &Env) -> f64 {
+        Comparator::input_cap(self, v_cm)
+    }
+    /// A falling ramp drives the comparator just as a rising one: the slope's magnitude counts.
+    fn delay(&self, slope: f64, _env: &Env) -> f64 {
+        self.delay_ramp(slope.abs())
+    }
+}
+
+/// Process switches on the node (each in its off state: junction and overlap capacitance).
+#[derive(Clone, Debug)]
+pub struct SwitchSet(pub Vec<Switch>);
+
+impl NodeCapPart for SwitchSet {
+    fn at(&self, v: f64, _env: &Env) -> f64 {
+        self.0.iter().map(|s| s.node_cap(v)).sum()
+    }
+}
+
+/// A process mirror output: ideal value `nominal` (the reference current, times 1 + i_mismatch
+/// on the low side); real value the device characteristic, scaled the same way.
+#[derive(Clone, Debug)]
+pub struct MirrorSource {
+    pub mirror: Mirror,
+    pub nominal: f64,
+}
+
+impl SourcePart for MirrorSource {
+    fn nominal(&self, _env: &Env) -> f64 {
+        self.nominal
+    }
+    fn at(&self, v_node: f64, _env: &Env) -> f64 {
+        self.mirror.i_out(v_node) * self.nominal / (self.mirror.i_ref * self.mirror.ratio)
     }
 }
 
@@ -150,27 +206,22 @@ impl SourcePart for MirrorOut {
     }
 }
 
-/// A comparator described by numbers: offset, constant input capacitance, a fixed delay plus
-/// the slope-dependent integrator delay of its first stage.
+/// A comparator with an offset, a constant input capacitance and a fixed delay.
 #[derive(Clone, Debug)]
-pub struct ExplicitComparator {
+pub struct FixedComparator {
     pub vos: f64,
     pub c_in: f64,
-    pub t_fixed: f64,
-    pub gbw: f64,
-    /// NaN: half the supply.
-    pub v_sw: f64,
+    pub t0: f64,
 }
 
-impl ComparatorPart for ExplicitComparator {
+impl ComparatorPart for FixedComparator {
     fn offset(&self, _env: &Env) -> f64 {
         self.vos
     }
     fn input_cap(&self, _v_cm: f64, _env: &Env) -> f64 {
         self.c_in
     }
-    fn delay(&self, slope: f64, env: &Env) -> f64 {
-        let v_sw = if self.v_sw.is_nan() { 0.5 * env.vdd } else { self.v_sw };
-        self.t_fixed + ramp_delay(slope, self.gbw, v_sw)
+    fn delay(&self, _slope: f64, _env: &Env) -> f64 {
+        self.t0
     }
 }

@@ -34,16 +34,21 @@ pub fn ramp_time(c: &dyn Fn(f64) -> f64, i: &dyn Fn(f64) -> f64, v0: f64, v1: f6
 }
 
 /// Node voltage after `dt` seconds from `v0` under dV/dt = I(V)/C(V) (classical fourth-order
-/// Runge–Kutta with 256 steps; exact for a constant slope).
+/// Runge–Kutta; exact for a constant slope). At least 256 steps, and steps of at most a fifth
+/// of the local time constant |d(I/C)/dV|⁻¹ so that a fast RC discharge (a reset switch) stays
+/// stable and accurate.
 pub fn advance(c: &dyn Fn(f64) -> f64, i: &dyn Fn(f64) -> f64, v0: f64, dt: f64) -> Result<f64, String> {
     if dt == 0.0 {
         return Ok(v0);
     }
-    const N: usize = 256;
-    let h = dt / N as f64;
     let f = |v: f64| i(v) / c(v);
+    let dv = 1e-3 * v0.abs().max(1e-3);
+    let rate = ((f(v0 + dv) - f(v0 - dv)) / (2.0 * dv)).abs();
+    let stiff = if rate.is_finite() { (5.0 * rate * dt).ceil() } else { 0.0 };
+    let n = stiff.clamp(256.0, 2e6) as usize;
+    let h = dt / n as f64;
     let mut v = v0;
-    for _ in 0..N {
+    for _ in 0..n {
         let k1 = f(v);
         let k2 = f(v + 0.5 * h * k1);
         let k3 = f(v + 0.5 * h * k2);

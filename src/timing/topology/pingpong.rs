@@ -34,7 +34,7 @@ pub fn cycle(v: &View) -> Result<Cycle, String> {
     let cb_idle = |x: f64| v.cap(x) * scale_b + v.node(x);
     let up = |x: f64| v.i_ch(x);
     let d = |s: f64| v.delay_hi(s) + v.chain(true);
-    let r_reset = if v.on(Parasitic::Reset) { v.p("r_reset") } else { 0.0 };
+    let r_reset = if v.on(Parasitic::Reset) { v.o.parts.r_reset } else { 0.0 };
     let discharge = |x: f64| -(x - vl) / r_reset;
     let one = |[xa, xb]: [f64; 2]| {
         let a = ramp_phase("capacitor A", &ca, &up, xa, vref, &d)?;

@@ -29,7 +29,7 @@ pub fn cycle(v: &View) -> Result<Cycle, String> {
     let up = |x: f64| v.i_ch(x);
     let d = |s: f64| v.delay_hi(s) + v.chain(false);
     let reset_on = v.on(Parasitic::Reset);
-    let (t_reset, r_reset) = if reset_on { (v.p("t_reset"), v.p("r_reset")) } else { (0.0, 0.0) };
+    let (t_reset, r_reset) = if reset_on { (v.p("t_reset"), v.o.parts.r_reset) } else { (0.0, 0.0) };
     // During the reset pulse the source keeps feeding the node: C·dV/dt = I(V) − (V − V_reset)/R.
     let during = |x: f64| v.i_ch(x) - (x - vl) / r_reset;
     let one = |x0: f64| {

@@ -23,7 +23,9 @@ pub fn ideal_rc(r: f64, c: f64, vdd: f64, v_lo: f64, v_hi: f64) -> f64 {
 /// devices.
 pub fn thresholds(o: &Osc) -> (f64, f64) {
     let p = &o.params;
-    if o.kind() == Kind::Schmitt && p.has("vtn") {
+    if let Some(l) = o.parts.levels {
+        l
+    } else if o.kind() == Kind::Schmitt && p.has("vtn") {
         let dt = p.get("tc_vt") * (o.env.temp_c - super::super::env::T_REF_C);
         schmitt_cmos(o.env.vdd, p.get("vtn") + dt, p.get("vtp") + dt, p.get("ratio_n"), p.get("ratio_p"))
     } else {
