@@ -1,9 +1,245 @@
-//! Registration of the timing layer (`osc(kind, #{...})` and its methods).
-use rhai::Engine;
+//! Registration of the timing layer: `osc(kind, #{...})`, its methods (ideal period, period
+//! with parasitics, cycle details, error budget, operating point) and `osc_keys(kind)`.
+use rhai::{Array, Dynamic, Engine, EvalAltResult, Map};
 
 use super::docs::Doc;
 use super::session::Shared;
+use super::value::to_f64;
+use crate::num::si::eng;
+use crate::num::Series;
+use crate::timing::budget::budget;
+use crate::physics::mirror::MirrorKind;
+use crate::physics::process::Process;
+use crate::timing::from_process::{osc_from, Choices};
+use crate::timing::keys::{def, Dflt, Kind, Mode};
+use crate::timing::{Cycle, Mask, Osc};
 
-pub const DOCS: &[Doc] = &[];
+type R<T> = Result<T, Box<EvalAltResult>>;
 
-pub fn register(_engine: &mut Engine, _session: &Shared) {}
+pub const DOCS: &[Doc] = &[
+    Doc { name: "osc", sig: "osc(kind: string, params: map) -> Oscillator", summary: "an oscillator from explicit numbers; kinds \"rc-inverter\", \"schmitt\", \"window\", \"reset\", \"pingpong\"; keys c (F), i (A), r (Ω), v_lo, v_hi, vdd (V), temp (°C) and one key per parasitic (default ideal); osc_keys(kind) lists them" },
+    Doc { name: "osc_from", sig: "osc_from(process: Process|string, kind: string, params: map) -> Oscillator", summary: "an oscillator whose parts are devices of a process (a process object, or a built-in name such as \"demo180\"): mirrors, switches, input-pair comparators, process capacitor; device sizes mirror_w, mirror_l, sw_w, sw_l, cmp_w, cmp_l (m), cmp_itail (A), cmp_cload (F); names cap_type (default \"mim\") and mirror (\"simple\", \"cascode\", \"wide-swing\"; default \"cascode\"); osc_keys(kind, \"process\") lists the keys" },
+    Doc { name: "osc_keys", sig: "osc_keys(kind: string) -> array", summary: "the keys an oscillator kind accepts in osc(), each as \"name (unit): meaning [default]\"" },
+    Doc { name: "osc_keys", sig: "osc_keys(kind: string, \"process\") -> array", summary: "the numeric keys of osc_from() for that kind" },
+    Doc { name: "corners", sig: "o.corners() -> array", summary: "the corners the oscillator can be evaluated at (o.at(#{corner: name}))" },
+    Doc { name: "ideal_period", sig: "o.ideal_period() -> float", summary: "the textbook period of the topology from its basic keys, s" },
+    Doc { name: "period", sig: "o.period() -> float", summary: "the period with every parasitic, in periodic steady state, s" },
+    Doc { name: "frequency", sig: "o.frequency() -> float", summary: "1 / period with every parasitic, Hz" },
+    Doc { name: "duty", sig: "o.duty() -> float", summary: "fraction of the period in the first phase (charging; capacitor A; the reset pulse for \"reset\")" },
+    Doc { name: "v_peak", sig: "o.v_peak() -> float", summary: "highest node voltage over the cycle, overshoot included, V" },
+    Doc { name: "overshoot", sig: "o.overshoot() -> float", summary: "largest excursion of the node beyond a threshold caused by the delay chain, V" },
+    Doc { name: "cycle", sig: "o.cycle() -> map", summary: "period, frequency, duty, v_peak, v_valley (V), overshoot (V), iterations, phases (array of #{name, v_start, v_threshold, v_end, ramp, delay, slope})" },
+    Doc { name: "budget", sig: "o.budget() -> map", summary: "error budget: ideal, full, total_error, remainder, ideal_comparators, comparator_share, ideal_delay_chain, delay_chain_share (s); rows (array of maps for table); waterfall and buildup (#{labels, y} for plot kind \"bar\", waterfall: true)" },
+    Doc { name: "at", sig: "o.at(#{temp: °C, vdd: V, corner: string}) -> Oscillator", summary: "the same oscillator at another operating point (any of the keys)" },
+    Doc { name: "modified", sig: "o.modified(params: map) -> Oscillator", summary: "a copy of the oscillator with some keys changed (checked like osc); o itself is unchanged" },
+    Doc { name: "sweep", sig: "o.sweep(key: string, values: Series) -> Series", summary: "period with every parasitic for each value of one key, s" },
+    Doc { name: "kind", sig: "o.kind() -> string", summary: "the topology name" },
+    Doc { name: "params", sig: "o.params() -> map", summary: "the keys given, with their values" },
+];
+
+fn lift<T>(r: Result<T, String>) -> R<T> {
+    r.map_err(|e| e.into())
+}
+
+/// Numbers of an option map, each named in errors.
+fn pairs(what: &str, m: &Map) -> R<Vec<(String, f64)>> {
+    m.iter()
+        .map(|(k, v)| {
+            to_f64(v)
+                .map(|x| (k.to_string(), x))
+                .map_err(|_| format!("{what}: key '{k}' must be a number, found {}", v.type_name()).into())
+        })
+        .collect()
+}
+
+fn kind(name: &str) -> R<Kind> {
+    lift(Kind::parse(name))
+}
+
+fn cycle_map(c: &Cycle) -> Map {
+    let mut m = Map::new();
+    m.insert("period".into(), Dynamic::from_float(c.period));
+    m.insert("frequency".into(), Dynamic::from_float(c.frequency()));
+    m.insert("duty".into(), Dynamic::from_float(c.duty));
+    m.insert("v_peak".into(), Dynamic::from_float(c.v_peak));
+    m.insert("v_valley".into(), Dynamic::from_float(c.v_valley));
+    m.insert("overshoot".into(), Dynamic::from_float(c.overshoot));
+    m.insert("iterations".into(), Dynamic::from_int(c.iterations as i64));
+    let phases: Array = c
+        .phases
+        .iter()
+        .map(|p| {
+            let mut q = Map::new();
+            q.insert("name".into(), Dynamic::from(p.name.to_string()));
+            for (k, v) in [("v_start", p.v_start), ("v_threshold", p.v_threshold), ("v_end", p.v_end), ("ramp", p.ramp), ("delay", p.delay), ("slope", p.slope)] {
+                q.insert(k.into(), Dynamic::from_float(v));
+            }
+            Dynamic::from_map(q)
+        })
+        .collect();
+    m.insert("phases".into(), Dynamic::from_array(phases));
+    m
+}
+
+fn budget_map(o: &Osc) -> R<Map> {
+    let b = lift(budget(o))?;
+    let mut m = Map::new();
+    let f = |x: f64| Dynamic::from_float(x);
+    m.insert("kind".into(), Dynamic::from(o.kind().name().to_string()));
+    for (k, v) in [
+        ("ideal", b.ideal),
+        ("full", b.full),
+        ("total_error", b.total_error()),
+        ("sum_alone", b.sum_alone),
+        ("remainder", b.remainder),
+        ("ideal_comparators", b.ideal_comparators),
+        ("comparator_share", b.comparator_share()),
+        ("ideal_delay_chain", b.ideal_delay_chain),
+        ("delay_chain_share", b.delay_chain_share()),
+    ] {
+        m.insert(k.into(), f(v));
+    }
+    let labels: Array = b.rows.iter().map(|r| Dynamic::from(r.parasitic.label().to_string())).collect();
+    let names: Array = b.rows.iter().map(|r| Dynamic::from(r.parasitic.name().to_string())).collect();
+    let alone: Series = b.rows.iter().map(|r| r.alone).collect();
+    let step: Series = b.rows.iter().map(|r| r.step).collect();
+    let rows: Array = b
+        .rows
+        .iter()
+        .map(|r| {
+            let mut q = Map::new();
+            q.insert("parasitic".into(), Dynamic::from(r.parasitic.label().to_string()));
+            q.insert("alone".into(), f(r.alone));
+            q.insert("alone_ppm".into(), f(r.alone / b.ideal * 1e6));
+            q.insert("step".into(), f(r.step));
+            q.insert("cumulative".into(), f(r.cumulative));
+            Dynamic::from_map(q)
+        })
+        .collect();
+    m.insert("labels".into(), Dynamic::from_array(labels.clone()));
+    m.insert("names".into(), Dynamic::from_array(names));
+    m.insert("alone".into(), Dynamic::from(alone.clone()));
+    m.insert("step".into(), Dynamic::from(step.clone()));
+    m.insert("rows".into(), Dynamic::from_array(rows));
+    // Waterfalls of the period error: each parasitic alone plus the interaction remainder, and
+    // the sequential build-up; both end on the total error.
+    let mut wl = labels.clone();
+    wl.push(Dynamic::from("interaction remainder".to_string()));
+    let mut wy = alone.to_vec();
+    wy.push(b.remainder);
+    let mut w = Map::new();
+    w.insert("labels".into(), Dynamic::from_array(wl));
+    w.insert("y".into(), Dynamic::from(Series::from(wy)));
+    m.insert("waterfall".into(), Dynamic::from_map(w));
+    let mut u = Map::new();
+    u.insert("labels".into(), Dynamic::from_array(labels));
+    u.insert("y".into(), Dynamic::from(step));
+    m.insert("buildup".into(), Dynamic::from_map(u));
+    Ok(m)
+}
+
+fn describe(o: &Osc) -> String {
+    let given: Vec<String> = o
+        .params
+        .given()
+        .map(|(k, v)| {
+            let unit = def(k).map(|d| d.unit).unwrap_or("");
+            match unit {
+                "1" | "1/K" | "1/V" | "1/V²" | "V/K" | "°C" => format!("{k} = {v}"),
+                _ => format!("{k} = {}", eng(v, unit, 4)),
+            }
+        })
+        .collect();
+    format!("{} oscillator ({}; {} °C, {} V, {}): {}", o.kind().name(), o.origin(), o.env.temp_c, o.env.vdd, o.env.corner, given.join(", "))
+}
+
+fn key_help(k: Kind, mode: Mode) -> Array {
+    k.keys_for(mode)
+        .iter()
+        .filter_map(|n| def(n))
+        .map(|d| {
+            let dflt = match d.default {
+                Dflt::Required => "required".to_string(),
+                Dflt::Derived => "derived".to_string(),
+                Dflt::Value(v) if v.is_infinite() => "default: ideal (infinite)".to_string(),
+                Dflt::Value(v) => format!("default {v}"),
+            };
+            Dynamic::from(format!("{} ({}): {} [{dflt}]", d.name, d.unit, d.what))
+        })
+        .collect()
+}
+
+/// `osc_from`: the name keys (cap_type, mirror) taken out, the rest numbers.
+fn from_process(pr: &Process, k: &str, mut m: Map) -> R<Osc> {
+    let kind = kind(k)?;
+    let what = format!("osc_from(\"{k}\")");
+    let mut name = |key: &str, default: &str| -> R<String> {
+        match m.remove(key) {
+            None => Ok(default.to_string()),
+            Some(v) => v.into_string().map_err(|t| format!("{what}: key '{key}' must be a string, found {t}").into()),
+        }
+    };
+    let cap_type = name("cap_type", "mim")?;
+    let mirror = lift(MirrorKind::parse(&name("mirror", "cascode")?).map_err(|e| format!("{what}: key 'mirror': {e}")))?;
+    lift(osc_from(pr, kind, Choices { cap_type, mirror }, &pairs(&what, &m)?))
+}
+
+pub fn register(engine: &mut Engine, _session: &Shared) {
+    engine.register_type_with_name::<Osc>("Oscillator");
+    engine.register_fn("to_string", |o: &mut Osc| describe(o));
+    engine.register_fn("to_debug", |o: &mut Osc| describe(o));
+
+    engine.register_fn("osc", |k: &str, m: Map| -> R<Osc> {
+        let kind = kind(k)?;
+        lift(Osc::new(kind, &pairs(&format!("osc(\"{k}\")"), &m)?))
+    });
+    engine.register_fn("osc_keys", |k: &str| -> R<Array> { Ok(key_help(kind(k)?, Mode::Explicit)) });
+    engine.register_fn("osc_keys", |k: &str, mode: &str| -> R<Array> {
+        match mode {
+            "process" => Ok(key_help(kind(k)?, Mode::Process)),
+            "explicit" => Ok(key_help(kind(k)?, Mode::Explicit)),
+            _ => Err(format!("osc_keys: the second argument must be \"explicit\" or \"process\", got \"{mode}\"").into()),
+        }
+    });
+    engine.register_fn("osc_from", |pr: Process, k: &str, m: Map| -> R<Osc> { from_process(&pr, k, m) });
+    engine.register_fn("osc_from", |name: &str, k: &str, m: Map| -> R<Osc> { from_process(&lift(Process::builtin(name))?, k, m) });
+    engine.register_fn("corners", |o: &mut Osc| -> Array { o.corners().into_iter().map(Dynamic::from).collect() });
+
+    engine.register_fn("ideal_period", |o: &mut Osc| -> R<f64> { lift(o.ideal_period()) });
+    engine.register_fn("period", |o: &mut Osc| -> R<f64> { lift(o.period()) });
+    engine.register_fn("frequency", |o: &mut Osc| -> R<f64> { Ok(lift(o.cycle(Mask::ALL))?.frequency()) });
+    engine.register_fn("duty", |o: &mut Osc| -> R<f64> { Ok(lift(o.cycle(Mask::ALL))?.duty) });
+    engine.register_fn("v_peak", |o: &mut Osc| -> R<f64> { Ok(lift(o.cycle(Mask::ALL))?.v_peak) });
+    engine.register_fn("overshoot", |o: &mut Osc| -> R<f64> { Ok(lift(o.cycle(Mask::ALL))?.overshoot) });
+    engine.register_fn("cycle", |o: &mut Osc| -> R<Map> { Ok(cycle_map(&lift(o.cycle(Mask::ALL))?)) });
+    engine.register_fn("budget", |o: &mut Osc| -> R<Map> { budget_map(o) });
+    engine.register_fn("kind", |o: &mut Osc| o.kind().name().to_string());
+    engine.register_fn("params", |o: &mut Osc| -> Map {
+        o.params.given().map(|(k, v)| (k.into(), Dynamic::from_float(v))).collect()
+    });
+
+    engine.register_fn("modified", |o: &mut Osc, m: Map| -> R<Osc> { lift(o.with(&pairs("modified", &m)?)) });
+    engine.register_fn("at", |o: &mut Osc, m: Map| -> R<Osc> {
+        let mut temp = None;
+        let mut vdd = None;
+        let mut corner = None;
+        for (k, v) in &m {
+            match k.as_str() {
+                "temp" => temp = Some(to_f64(v).map_err(|_| format!("at: key 'temp' must be a number (°C), found {}", v.type_name()))?),
+                "vdd" => vdd = Some(to_f64(v).map_err(|_| format!("at: key 'vdd' must be a number (V), found {}", v.type_name()))?),
+                "corner" => {
+                    corner = Some(v.clone().into_string().map_err(|t| format!("at: key 'corner' must be a string, found {t}"))?)
+                }
+                other => return Err(format!("at: unknown key '{other}'; the keys are temp, vdd, corner").into()),
+            }
+        }
+        lift(o.at(temp, vdd, corner.as_deref()))
+    });
+    engine.register_fn("sweep", |o: &mut Osc, key: &str, values: Series| -> R<Series> {
+        values
+            .as_slice()
+            .iter()
+            .map(|x| lift(o.with(&[(key.to_string(), *x)]).and_then(|p| p.period())))
+            .collect()
+    });
+}

@@ -1,0 +1,349 @@
+//! Topology kinds and their parameter keys: units, defaults, ranges, and which parasitic each
+//! key belongs to. A map with only the basic keys is the ideal circuit.
+use std::collections::BTreeMap;
+
+use super::parasitic::Parasitic;
+
+/// The five relaxation topologies.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Kind {
+    RcInverter,
+    Schmitt,
+    Window,
+    Reset,
+    PingPong,
+}
+
+pub const KINDS: [Kind; 5] = [Kind::RcInverter, Kind::Schmitt, Kind::Window, Kind::Reset, Kind::PingPong];
+
+/// Where the parts come from: explicit numbers (`osc`) or the devices of a process (`osc_from`).
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Mode {
+    Explicit,
+    Process,
+}
+
+impl Kind {
+    /// Keys this kind accepts in `mode`.
+    pub fn keys_for(self, mode: Mode) -> &'static [&'static str] {
+        match mode {
+            Mode::Explicit => self.keys(),
+            Mode::Process => match self {
+                Kind::RcInverter => &[],
+                Kind::Schmitt => &[
+                    "c", "i", "vdd", "temp", "ratio_n", "ratio_p", "mirror_w", "mirror_l", "sw_w", "sw_l", "c_in",
+                    "i_mismatch", "vos_hi", "vos_lo", "t_cmp", "t_logic", "t_sw",
+                ],
+                Kind::Window => &[
+                    "c", "i", "v_lo", "v_hi", "vdd", "temp", "mirror_w", "mirror_l", "sw_w", "sw_l", "cmp_w", "cmp_l",
+                    "cmp_itail", "cmp_cload", "cmp_vsw", "t_cmp", "i_mismatch", "vos_hi", "vos_lo", "t_latch", "t_logic", "t_sw",
+                ],
+                Kind::Reset => &[
+                    "c", "i", "v_lo", "v_hi", "vdd", "temp", "mirror_w", "mirror_l", "sw_w", "sw_l", "cmp_w", "cmp_l",
+                    "cmp_itail", "cmp_cload", "cmp_vsw", "t_cmp", "vos", "t_logic", "t_reset",
+                ],
+                Kind::PingPong => &[
+                    "c", "i", "v_lo", "v_hi", "vdd", "temp", "mirror_w", "mirror_l", "sw_w", "sw_l", "cmp_w", "cmp_l",
+                    "cmp_itail", "cmp_cload", "cmp_vsw", "t_cmp", "vos", "c_mismatch", "t_latch", "t_logic", "t_sw",
+                ],
+            },
+        }
+    }
+
+    pub fn name(self) -> &'static str {
+        match self {
+            Kind::RcInverter => "rc-inverter",
+            Kind::Schmitt => "schmitt",
+            Kind::Window => "window",
+            Kind::Reset => "reset",
+            Kind::PingPong => "pingpong",
+        }
+    }
+    pub fn parse(s: &str) -> Result<Kind, String> {
+        KINDS.iter().copied().find(|k| k.name() == s).ok_or_else(|| {
+            let names: Vec<&str> = KINDS.iter().map(|k| k.name()).collect();
+            format!("unknown oscillator kind '{s}'; kinds are: {}", names.join(", "))
+        })
+    }
+    /// Keys this kind accepts, basic keys first.
+    pub fn keys(self) -> &'static [&'static str] {
+        match self {
+            Kind::RcInverter => &["c", "r", "vdd", "temp", "v_th", "tc_r", "tc_c", "c_in", "vos", "t_logic"],
+            Kind::Schmitt => &[
+                "c", "i", "r", "v_lo", "v_hi", "vdd", "temp", "vtn", "vtp", "ratio_n", "ratio_p", "tc_vt", "tc_i",
+                "tc_r", "tc_c", "c_vc1", "c_vc2", "c_swn", "c_swp", "sw_phi", "sw_m", "c_in", "r_out", "v_ds_ref",
+                "i_mismatch", "vos_hi", "vos_lo", "t_cmp", "cmp_gbw", "cmp_a0", "cmp_slew", "cmp_vsw", "t_logic", "t_sw",
+            ],
+            Kind::Window => &[
+                "c", "i", "v_lo", "v_hi", "vdd", "temp", "tc_i", "tc_c", "c_vc1", "c_vc2", "c_swn", "c_swp", "sw_phi",
+                "sw_m", "c_in", "r_out", "v_ds_ref", "i_mismatch", "vos_hi", "vos_lo", "t_cmp", "cmp_gbw", "cmp_a0", "cmp_slew", "cmp_vsw",
+                "t_latch", "t_logic", "t_sw",
+            ],
+            Kind::Reset => &[
+                "c", "i", "v_lo", "v_hi", "vdd", "temp", "tc_i", "tc_c", "c_vc1", "c_vc2", "c_swn", "c_swp", "sw_phi",
+                "sw_m", "c_in", "r_out", "v_ds_ref", "vos", "t_cmp", "cmp_gbw", "cmp_a0", "cmp_slew", "cmp_vsw", "t_logic", "t_reset",
+                "r_reset",
+            ],
+            Kind::PingPong => &[
+                "c", "i", "v_lo", "v_hi", "vdd", "temp", "tc_i", "tc_c", "c_vc1", "c_vc2", "c_swn", "c_swp", "sw_phi",
+                "sw_m", "c_in", "r_out", "v_ds_ref", "c_mismatch", "vos", "t_cmp", "cmp_gbw", "cmp_a0", "cmp_slew", "cmp_vsw", "t_latch",
+                "t_logic", "t_sw", "r_reset",
+            ],
+        }
+    }
+    /// The parasitics of this kind, in the order of the sequential build-up of the budget
+    /// (parts of the ramp first, then the comparator and delay chain).
+    pub fn parasitics(self) -> Vec<Parasitic> {
+        let mut v: Vec<Parasitic> = super::parasitic::ALL
+            .iter()
+            .copied()
+            .filter(|p| self.keys().iter().any(|k| def(k).is_some_and(|d| d.group == Some(*p))))
+            .collect();
+        v.sort();
+        v
+    }
+}
+
+/// Default of a key.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub enum Dflt {
+    /// Must be given (or, where the kind says so, derived from other keys).
+    Required,
+    /// Derived from other keys when absent (documented per key).
+    Derived,
+    Value(f64),
+}
+
+/// One key: name, unit, default, allowed range [min, max] (`open_min`: min itself excluded),
+/// the parasitic it belongs to (None for basic keys) and what it means.
+#[derive(Clone, Copy, Debug)]
+pub struct KeyDef {
+    pub name: &'static str,
+    pub unit: &'static str,
+    pub default: Dflt,
+    pub min: f64,
+    pub max: f64,
+    pub open_min: bool,
+    pub group: Option<Parasitic>,
+    pub what: &'static str,
+}
+
+const INF: f64 = f64::INFINITY;
+
+macro_rules! k {
+    ($n:literal, $u:literal, $d:expr, $lo:expr, $hi:expr, $open:expr, $g:expr, $w:literal) => {
+        KeyDef { name: $n, unit: $u, default: $d, min: $lo, max: $hi, open_min: $open, group: $g, what: $w }
+    };
+}
+
+use Dflt::{Derived, Required, Value};
+use Parasitic as P;
+
+/// Every key of every kind.
+pub const KEYS: &[KeyDef] = &[
+    k!("c", "F", Required, 0.0, 1e-3, true, None, "timing capacitance"),
+    k!("i", "A", Required, 0.0, 1.0, true, None, "charging current (reference of the mirrors)"),
+    k!("r", "Ω", Required, 0.0, 1e12, true, None, "timing resistance (RC kinds)"),
+    k!("v_lo", "V", Required, 0.0, 100.0, false, None, "low threshold / reset level (reset, pingpong: default 0)"),
+    k!("v_hi", "V", Required, 0.0, 100.0, true, None, "high threshold / reference voltage"),
+    k!("vdd", "V", Value(1.8), 0.0, 100.0, true, None, "supply voltage"),
+    k!("temp", "°C", Value(27.0), -273.15, 500.0, true, None, "temperature"),
+    k!("v_th", "V", Derived, 0.0, 100.0, true, None, "inverter switching threshold (default vdd/2)"),
+    k!("vtn", "V", Derived, 0.0, 10.0, true, None, "NMOS threshold of the Schmitt trigger (derives v_hi)"),
+    k!("vtp", "V", Derived, 0.0, 10.0, true, None, "|PMOS threshold| of the Schmitt trigger (derives v_lo)"),
+    k!("ratio_n", "1", Value(1.0), 0.0, 1e4, true, None, "Schmitt trigger β1/β3 (NMOS stack / NMOS feedback)"),
+    k!("ratio_p", "1", Value(1.0), 0.0, 1e4, true, None, "Schmitt trigger β5/β6 (PMOS stack / PMOS feedback)"),
+    k!("tc_vt", "V/K", Value(0.0), -0.1, 0.1, false, None, "temperature coefficient of vtn and vtp"),
+    k!("tc_i", "1/K", Value(0.0), -0.1, 0.1, false, None, "linear tempco of the current i about 27 °C"),
+    k!("tc_r", "1/K", Value(0.0), -0.1, 0.1, false, None, "linear tempco of the resistor r about 27 °C"),
+    k!("tc_c", "1/K", Value(0.0), -0.01, 0.01, false, None, "linear tempco of the capacitor c about 27 °C"),
+    k!("c_vc1", "1/V", Value(0.0), -0.1, 0.1, false, Some(P::CapVc), "capacitor C(V) = c·(1 + c_vc1·V + c_vc2·V²)"),
+    k!("c_vc2", "1/V²", Value(0.0), -0.1, 0.1, false, Some(P::CapVc), "second-order capacitor voltage coefficient"),
+    k!("c_swn", "F", Value(0.0), 0.0, 1e-6, false, Some(P::SwitchCap), "zero-bias n-junction capacitance of the switches on the node (reverse bias V)"),
+    k!("c_swp", "F", Value(0.0), 0.0, 1e-6, false, Some(P::SwitchCap), "zero-bias p-junction capacitance of the switches on the node (reverse bias vdd − V)"),
+    k!("sw_phi", "V", Value(0.8), 0.0, 5.0, true, Some(P::SwitchCap), "junction built-in potential"),
+    k!("sw_m", "1", Value(0.5), 0.0, 1.0, true, Some(P::SwitchCap), "junction grading exponent"),
+    k!("c_in", "F", Value(0.0), 0.0, 1e-6, false, Some(P::InputCap), "input capacitance of each comparator (trigger, inverter) on the node"),
+    k!("r_out", "Ω", Value(INF), 0.0, INF, true, Some(P::MirrorRout), "output resistance of each current mirror"),
+    k!("v_ds_ref", "V", Value(0.6), 0.0, 100.0, false, Some(P::MirrorRout), "|Vds| at which a mirror gives exactly its nominal current"),
+    k!("i_mismatch", "1", Value(0.0), -0.9, 0.9, false, Some(P::Mismatch), "discharge current = i·(1 + i_mismatch)"),
+    k!("c_mismatch", "1", Value(0.0), -0.9, 0.9, false, Some(P::CapMismatch), "second capacitor = c·(1 + c_mismatch)"),
+    k!("vos_hi", "V", Value(0.0), -1.0, 1.0, false, Some(P::Offset), "offset of the high comparator (moves v_hi)"),
+    k!("vos_lo", "V", Value(0.0), -1.0, 1.0, false, Some(P::Offset), "offset of the low comparator (moves v_lo)"),
+    k!("vos", "V", Value(0.0), -1.0, 1.0, false, Some(P::Offset), "comparator offset / threshold shift"),
+    k!("t_cmp", "s", Value(0.0), 0.0, 1.0, false, Some(P::CmpDelay), "fixed part of the comparator delay"),
+    k!("cmp_gbw", "Hz", Value(INF), 0.0, INF, true, Some(P::CmpDelay), "comparator gain-bandwidth (ramp-slope dependent delay)"),
+    k!("cmp_a0", "1", Value(1e4), 1.0, 1e12, true, Some(P::CmpDelay), "comparator DC gain (V/V)"),
+    k!("cmp_slew", "V/s", Value(INF), 0.0, INF, true, Some(P::CmpDelay), "comparator output slew rate"),
+    k!("cmp_vsw", "V", Derived, 0.0, 100.0, true, Some(P::CmpDelay), "comparator output swing to switch the latch (default vdd/2)"),
+    k!("t_latch", "s", Value(0.0), 0.0, 1.0, false, Some(P::LogicDelay), "latch (flip-flop) delay"),
+    k!("t_logic", "s", Value(0.0), 0.0, 1.0, false, Some(P::LogicDelay), "logic (inverter, driver) delay"),
+    k!("t_sw", "s", Value(0.0), 0.0, 1.0, false, Some(P::SwitchDelay), "switch turn-over time"),
+    k!("t_reset", "s", Value(0.0), 0.0, 1.0, false, Some(P::Reset), "reset pulse width"),
+    k!("r_reset", "Ω", Value(0.0), 0.0, 1e12, false, Some(P::Reset), "on-resistance of the reset switch"),
+    // Device sizes of oscillators built from a process (osc_from).
+    k!("mirror_w", "m", Value(4e-6), 0.0, 1e-3, true, None, "width of the unit mirror device (process models)"),
+    k!("mirror_l", "m", Value(2e-6), 0.0, 1e-3, true, None, "length of the mirror devices (process models)"),
+    k!("sw_w", "m", Value(1e-6), 0.0, 1e-3, true, None, "width of the NMOS switches; PMOS switches are twice as wide (process models)"),
+    k!("sw_l", "m", Value(0.18e-6), 0.0, 1e-3, true, None, "length of the switches (process models)"),
+    k!("cmp_w", "m", Value(4e-6), 0.0, 1e-3, true, None, "width of each comparator input device (process models)"),
+    k!("cmp_l", "m", Value(1e-6), 0.0, 1e-3, true, None, "length of the comparator input devices (process models)"),
+    k!("cmp_itail", "A", Value(2e-6), 0.0, 1.0, true, None, "comparator tail current (process models)"),
+    k!("cmp_cload", "F", Value(20e-15), 0.0, 1e-9, true, None, "load capacitance of the comparator's first stage (process models)"),
+];
+
+pub fn def(name: &str) -> Option<&'static KeyDef> {
+    KEYS.iter().find(|d| d.name == name)
+}
+
+/// Checked parameter values of one oscillator (only the keys given; defaults come from the
+/// key table).
+#[derive(Clone, Debug, PartialEq)]
+pub struct Params {
+    pub kind: Kind,
+    pub mode: Mode,
+    given: BTreeMap<&'static str, f64>,
+}
+
+impl Params {
+    /// Check `pairs` against the keys of `kind`: unknown keys (listing the valid ones),
+    /// values out of range (naming the key and range), missing required keys.
+    pub fn new(kind: Kind, pairs: &[(String, f64)]) -> Result<Params, String> {
+        Params::new_in(kind, Mode::Explicit, pairs)
+    }
+
+    /// As `new`, for the keys of `mode`.
+    pub fn new_in(kind: Kind, mode: Mode, pairs: &[(String, f64)]) -> Result<Params, String> {
+        let keys = kind.keys_for(mode);
+        if keys.is_empty() {
+            return Err(format!("osc_from: a \"{}\" oscillator cannot be built from process models yet; use osc(\"{}\", #{{...}}) with explicit numbers", kind.name(), kind.name()));
+        }
+        let mut given = BTreeMap::new();
+        for (k, v) in pairs {
+            let Some(name) = keys.iter().copied().find(|n| n == k) else {
+                return Err(format!(
+                    "osc(\"{}\"): unknown key '{k}'; valid keys are: {}",
+                    kind.name(),
+                    keys.join(", ")
+                ));
+            };
+            let d = def(name).ok_or_else(|| format!("internal: key '{name}' has no definition"))?;
+            check_range(kind, d, *v)?;
+            given.insert(name, *v);
+        }
+        let p = Params { kind, mode, given };
+        p.check_required()?;
+        Ok(p)
+    }
+
+    /// The same parameters with some keys replaced (checked the same way).
+    pub fn with(&self, pairs: &[(String, f64)]) -> Result<Params, String> {
+        let mut all: Vec<(String, f64)> = self.given.iter().map(|(k, v)| (k.to_string(), *v)).collect();
+        for (k, v) in pairs {
+            all.retain(|(a, _)| a != k);
+            all.push((k.clone(), *v));
+        }
+        Params::new_in(self.kind, self.mode, &all)
+    }
+
+    fn check_required(&self) -> Result<(), String> {
+        let kind = self.kind.name();
+        let need = |k: &str| -> Result<(), String> {
+            if self.has(k) { Ok(()) } else { Err(format!("osc(\"{kind}\"): key '{k}' is required")) }
+        };
+        need("c")?;
+        match self.kind {
+            Kind::RcInverter => need("r")?,
+            Kind::Window => {
+                need("i")?;
+                need("v_lo")?;
+                need("v_hi")?;
+            }
+            Kind::Reset | Kind::PingPong => {
+                need("i")?;
+                need("v_hi")?;
+            }
+            Kind::Schmitt => {
+                match (self.has("i"), self.has("r")) {
+                    (true, true) => return Err(format!("osc(\"{kind}\"): give either 'i' (current-starved) or 'r' (RC), not both")),
+                    (false, false) => return Err(format!("osc(\"{kind}\"): key 'i' (current-starved) or 'r' (RC) is required")),
+                    _ => {}
+                }
+                let explicit = self.has("v_lo") || self.has("v_hi");
+                let derived = self.has("vtn") || self.has("vtp");
+                if self.mode == Mode::Process {
+                    need("i")?;
+                    return Ok(());
+                }
+                if explicit && derived {
+                    return Err(format!("osc(\"{kind}\"): give the thresholds either as 'v_lo'/'v_hi' or through 'vtn'/'vtp', not both"));
+                }
+                if derived {
+                    need("vtn")?;
+                    need("vtp")?;
+                } else {
+                    need("v_lo")?;
+                    need("v_hi")?;
+                }
+                if self.has("r") {
+                    for k in ["r_out", "i_mismatch", "c_swn", "c_swp", "tc_i"] {
+                        if self.has(k) {
+                            return Err(format!("osc(\"{kind}\"): key '{k}' applies to current charging ('i'), not to RC charging ('r')"));
+                        }
+                    }
+                } else if self.has("tc_r") {
+                    return Err(format!("osc(\"{kind}\"): key 'tc_r' applies to RC charging ('r'), not to current charging ('i')"));
+                }
+            }
+        }
+        Ok(())
+    }
+
+    pub fn has(&self, key: &str) -> bool {
+        self.given.contains_key(key)
+    }
+
+    /// Value of `key` as given, else its default; NaN for a derived key that is absent (the
+    /// caller derives it) or a key this kind does not have.
+    pub fn get(&self, key: &str) -> f64 {
+        if let Some(v) = self.given.get(key) {
+            return *v;
+        }
+        match def(key).map(|d| d.default) {
+            Some(Dflt::Value(v)) => v,
+            _ => {
+                debug_assert!(def(key).is_some(), "unknown key {key}");
+                f64::NAN
+            }
+        }
+    }
+
+    /// Keys given explicitly, with their values.
+    pub fn given(&self) -> impl Iterator<Item = (&'static str, f64)> + '_ {
+        self.given.iter().map(|(k, v)| (*k, *v))
+    }
+
+    /// Whether any key of parasitic `p` was given a value other than its ideal default.
+    pub fn sets(&self, p: Parasitic) -> bool {
+        self.given.iter().any(|(k, v)| {
+            def(k).is_some_and(|d| d.group == Some(p) && d.default != Dflt::Value(*v) && !matches!(*k, "sw_phi" | "sw_m" | "v_ds_ref" | "cmp_vsw"))
+        })
+    }
+}
+
+fn check_range(kind: Kind, d: &KeyDef, v: f64) -> Result<(), String> {
+    let lo_ok = if d.open_min { v > d.min } else { v >= d.min };
+    if v.is_nan() || !lo_ok || v > d.max {
+        let lb = if d.open_min { "(" } else { "[" };
+        let unit = if d.unit == "1" { String::new() } else { format!(" {}", d.unit) };
+        return Err(format!(
+            "osc(\"{}\"): key '{}' ({}) = {v}{unit} is out of range {lb}{}, {}]{unit}",
+            kind.name(),
+            d.name,
+            d.what,
+            d.min,
+            d.max
+        ));
+    }
+    Ok(())
+}

@@ -1,0 +1,291 @@
+//! An oscillator: kind, checked parameters, parts, operating point; its ideal and real period.
+use std::sync::Arc;
+
+use super::env::Env;
+use super::keys::{Kind, Mode, Params};
+use super::parasitic::{Mask, Parasitic};
+use super::parts::Parts;
+use super::topology;
+
+/// Where the parts come from: explicit numbers, or the devices of a process.
+pub trait Origin: Send + Sync {
+    /// What the parts are made of ("explicit numbers", or the process name).
+    fn name(&self) -> String;
+    fn mode(&self) -> Mode;
+    /// The parts for these parameters at this corner.
+    fn build(&self, p: &Params, corner: &str) -> Result<Parts, String>;
+    /// Corners known; the first is the default.
+    fn corners(&self) -> Vec<String>;
+    /// Temperature (°C) and supply (V) a corner itself fixes, if any.
+    fn corner_point(&self, corner: &str) -> Option<(f64, f64)>;
+    /// Parasitics the parts carry whatever the keys say (physics-model parts).
+    fn inherent(&self, p: &Params) -> Vec<Parasitic>;
+}
+
+struct Explicit;
+
+impl Origin for Explicit {
+    fn name(&self) -> String {
+        "explicit numbers".into()
+    }
+    fn mode(&self) -> Mode {
+        Mode::Explicit
+    }
+    fn build(&self, p: &Params, _corner: &str) -> Result<Parts, String> {
+        Parts::explicit(p)
+    }
+    fn corners(&self) -> Vec<String> {
+        vec!["typical".into()]
+    }
+    fn corner_point(&self, _corner: &str) -> Option<(f64, f64)> {
+        None
+    }
+    fn inherent(&self, _p: &Params) -> Vec<Parasitic> {
+        vec![]
+    }
+}
+
+#[derive(Clone)]
+pub struct Osc {
+    pub params: Params,
+    pub env: Env,
+    pub parts: Parts,
+    origin: Arc<dyn Origin>,
+    /// Parasitics the parts carry whatever the keys say (physics-model parts).
+    pub inherent: Vec<Parasitic>,
+}
+
+impl std::fmt::Debug for Osc {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        write!(f, "Osc({}, {:?}, {:?}, {})", self.kind().name(), self.params, self.env, self.origin.name())
+    }
+}
+
+/// One ramp of a cycle and the delay chain that ends it.
+#[derive(Clone, Debug, PartialEq)]
+pub struct PhaseTiming {
+    pub name: &'static str,
+    /// Node voltage at the start of the ramp, V.
+    pub v_start: f64,
+    /// Effective threshold (with offset), V.
+    pub v_threshold: f64,
+    /// Node voltage when the current turns over (threshold plus overshoot), V.
+    pub v_end: f64,
+    /// Ramp time to the threshold, s.
+    pub ramp: f64,
+    /// Delay chain after the crossing (comparator at the actual slope, latch, logic, switch;
+    /// reset pulse for the reset kind), s.
+    pub delay: f64,
+    /// Node slope at the threshold, V/s.
+    pub slope: f64,
+}
+
+/// A whole cycle in periodic steady state.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Cycle {
+    pub period: f64,
+    /// Fraction of the period in the first phase (charging; cap A for ping-pong; the reset
+    /// pulse for the reset kind).
+    pub duty: f64,
+    /// Highest and lowest node voltage over the cycle, V.
+    pub v_peak: f64,
+    pub v_valley: f64,
+    /// Largest excursion beyond a threshold caused by the delay chain, V.
+    pub overshoot: f64,
+    pub phases: Vec<PhaseTiming>,
+    /// Cycles iterated to reach the periodic steady state.
+    pub iterations: usize,
+}
+
+impl Cycle {
+    pub fn frequency(&self) -> f64 {
+        1.0 / self.period
+    }
+}
+
+impl Osc {
+    /// An oscillator from explicit numbers.
+    pub fn new(kind: Kind, pairs: &[(String, f64)]) -> Result<Osc, String> {
+        Osc::from_origin(kind, pairs, Arc::new(Explicit))
+    }
+
+    /// An oscillator whose parts come from `origin` (e.g. physics models of a process).
+    pub fn from_origin(kind: Kind, pairs: &[(String, f64)], origin: Arc<dyn Origin>) -> Result<Osc, String> {
+        let params = Params::new_in(kind, origin.mode(), pairs)?;
+        let corner = origin.corners().first().cloned().unwrap_or_else(|| "typical".into());
+        Osc::assemble(params, corner, origin)
+    }
+
+    fn assemble(params: Params, corner: String, origin: Arc<dyn Origin>) -> Result<Osc, String> {
+        let parts = origin.build(&params, &corner)?;
+        let env = Env { temp_c: params.get("temp"), vdd: params.get("vdd"), corner };
+        let inherent = origin.inherent(&params);
+        let o = Osc { params, env, parts, origin, inherent };
+        o.check()?;
+        Ok(o)
+    }
+
+    pub fn kind(&self) -> Kind {
+        self.params.kind
+    }
+
+    /// What the parts are made of.
+    pub fn origin(&self) -> String {
+        self.origin.name()
+    }
+
+    /// Corners this oscillator can be evaluated at.
+    pub fn corners(&self) -> Vec<String> {
+        self.origin.corners()
+    }
+
+    /// The same oscillator with some keys changed.
+    pub fn with(&self, pairs: &[(String, f64)]) -> Result<Osc, String> {
+        Osc::assemble(self.params.with(pairs)?, self.env.corner.clone(), self.origin.clone())
+    }
+
+    /// The same oscillator at another temperature (°C), supply (V) and/or corner. A corner that
+    /// fixes its own temperature and supply brings them along unless they are given here.
+    pub fn at(&self, temp: Option<f64>, vdd: Option<f64>, corner: Option<&str>) -> Result<Osc, String> {
+        let mut corner_name = self.env.corner.clone();
+        let (mut temp, mut vdd) = (temp, vdd);
+        if let Some(c) = corner {
+            let known = self.origin.corners();
+            if !known.iter().any(|k| k == c) {
+                return Err(format!(
+                    "corner '{c}' is not known to this oscillator (parts from {}); known corners: {}",
+                    self.origin.name(),
+                    known.join(", ")
+                ));
+            }
+            if let Some((t, v)) = self.origin.corner_point(c) {
+                temp = temp.or(Some(t));
+                vdd = vdd.or(Some(v));
+            }
+            corner_name = c.to_string();
+        }
+        let mut pairs = Vec::new();
+        if let Some(t) = temp {
+            pairs.push(("temp".to_string(), t));
+        }
+        if let Some(v) = vdd {
+            pairs.push(("vdd".to_string(), v));
+        }
+        Osc::assemble(self.params.with(&pairs)?, corner_name, self.origin.clone())
+    }
+
+    /// Parasitics present in this oscillator (given a non-ideal value, or inherent to its parts),
+    /// in build-up order.
+    pub fn active(&self) -> Vec<Parasitic> {
+        self.kind().parasitics().into_iter().filter(|p| self.params.sets(*p) || self.inherent.contains(p)).collect()
+    }
+
+    /// The textbook period of the topology from its basic keys.
+    pub fn ideal_period(&self) -> Result<f64, String> {
+        topology::ideal_period(self)
+    }
+
+    /// The cycle in periodic steady state with the parasitics of `mask` switched on.
+    pub fn cycle(&self, mask: Mask) -> Result<Cycle, String> {
+        let c = topology::cycle(&View { o: self, m: mask, env: &self.env })?;
+        if !(c.period > 0.0 && c.period.is_finite()) {
+            return Err(format!("osc(\"{}\"): the period came out as {} s", self.kind().name(), c.period));
+        }
+        Ok(c)
+    }
+
+    /// The period with every parasitic, s.
+    pub fn period(&self) -> Result<f64, String> {
+        Ok(self.cycle(Mask::ALL)?.period)
+    }
+
+    /// Relations between keys that single-key ranges cannot check.
+    fn check(&self) -> Result<(), String> {
+        let p = &self.params;
+        let kind = self.kind().name();
+        let vdd = self.env.vdd;
+        if p.has("v_lo") || p.has("v_hi") {
+            let (lo, hi) = (p.get("v_lo"), p.get("v_hi"));
+            let lo = if lo.is_nan() { 0.0 } else { lo };
+            if lo >= hi {
+                return Err(format!("osc(\"{kind}\"): 'v_lo' = {lo} V must be below 'v_hi' = {hi} V"));
+            }
+            if hi > vdd {
+                return Err(format!("osc(\"{kind}\"): 'v_hi' = {hi} V must not exceed 'vdd' = {vdd} V"));
+            }
+        }
+        if self.kind() == Kind::RcInverter && p.has("v_th") && p.get("v_th") >= vdd {
+            return Err(format!("osc(\"{kind}\"): 'v_th' = {} V must lie in (0, vdd = {vdd} V)", p.get("v_th")));
+        }
+        if self.kind() == Kind::Reset && p.get("r_reset") > 0.0 && p.get("t_reset") == 0.0 {
+            return Err(format!("osc(\"{kind}\"): 'r_reset' > 0 needs a reset pulse 't_reset' > 0 to discharge the capacitor"));
+        }
+        Ok(())
+    }
+}
+
+/// An oscillator seen through a mask: each accessor gives the real value when its parasitic is
+/// on and the ideal one when it is off.
+pub struct View<'a> {
+    pub o: &'a Osc,
+    pub m: Mask,
+    pub env: &'a Env,
+}
+
+impl View<'_> {
+    pub fn on(&self, p: Parasitic) -> bool {
+        self.m.on(p) && (self.o.params.sets(p) || self.o.inherent.contains(&p))
+    }
+    pub fn p(&self, key: &str) -> f64 {
+        self.o.params.get(key)
+    }
+    /// Timing capacitor, F.
+    pub fn cap(&self, v: f64) -> f64 {
+        if self.on(Parasitic::CapVc) { self.o.parts.cap.at(v, self.env) } else { self.o.parts.cap.nominal(self.env) }
+    }
+    /// Switch capacitance on the node, F.
+    pub fn node(&self, v: f64) -> f64 {
+        if self.on(Parasitic::SwitchCap) { self.o.parts.node.at(v, self.env) } else { 0.0 }
+    }
+    pub fn cin_hi(&self, v: f64) -> f64 {
+        if self.on(Parasitic::InputCap) { self.o.parts.cmp_hi.input_cap(v, self.env) } else { 0.0 }
+    }
+    pub fn cin_lo(&self, v: f64) -> f64 {
+        if self.on(Parasitic::InputCap) { self.o.parts.cmp_lo.input_cap(v, self.env) } else { 0.0 }
+    }
+    /// Charging current magnitude, A.
+    pub fn i_ch(&self, v: f64) -> f64 {
+        let s = &self.o.parts.charge;
+        if self.on(Parasitic::MirrorRout) { s.at(v, self.env) } else { s.nominal(self.env) }
+    }
+    /// Discharging current magnitude, A; with the mismatch off it is scaled to the charging
+    /// source's nominal current.
+    pub fn i_dis(&self, v: f64) -> f64 {
+        let s = &self.o.parts.discharge;
+        let i = if self.on(Parasitic::MirrorRout) { s.at(v, self.env) } else { s.nominal(self.env) };
+        if self.on(Parasitic::Mismatch) { i } else { i * self.o.parts.charge.nominal(self.env) / s.nominal(self.env) }
+    }
+    pub fn vos_hi(&self) -> f64 {
+        if self.on(Parasitic::Offset) { self.o.parts.cmp_hi.offset(self.env) } else { 0.0 }
+    }
+    pub fn vos_lo(&self) -> f64 {
+        if self.on(Parasitic::Offset) { self.o.parts.cmp_lo.offset(self.env) } else { 0.0 }
+    }
+    pub fn delay_hi(&self, slope: f64) -> f64 {
+        if self.on(Parasitic::CmpDelay) { self.o.parts.cmp_hi.delay(slope, self.env) } else { 0.0 }
+    }
+    pub fn delay_lo(&self, slope: f64) -> f64 {
+        if self.on(Parasitic::CmpDelay) { self.o.parts.cmp_lo.delay(slope, self.env) } else { 0.0 }
+    }
+    /// Latch, logic and switch delay after the comparator, s.
+    pub fn chain(&self, latch: bool) -> f64 {
+        let mut t = 0.0;
+        if self.on(Parasitic::LogicDelay) {
+            t += self.p("t_logic") + if latch { self.p("t_latch") } else { 0.0 };
+        }
+        if self.on(Parasitic::SwitchDelay) {
+            t += self.p("t_sw");
+        }
+        t
+    }
+}

@@ -1,0 +1,65 @@
+//! Ping-pong oscillator: two capacitors take turns; the active one is charged from its reset
+//! level to the reference while the other is reset; one comparator, one reference.
+use super::super::osc::{Cycle, Osc, View};
+use super::super::parasitic::Parasitic;
+use super::super::ramp::{advance, steady};
+use super::{check_rails, ramp_phase};
+
+/// Ideal period T = 2·C·(V_ref − V_reset)/I (common practice: two equal charge-balance ramps,
+/// instant reset of the idle capacitor).
+pub fn ideal_formula(c: f64, i: f64, v_reset: f64, v_ref: f64) -> f64 {
+    2.0 * c * (v_ref - v_reset) / i
+}
+
+fn v_reset(o: &Osc) -> f64 {
+    if o.params.has("v_lo") { o.params.get("v_lo") } else { 0.0 }
+}
+
+pub fn ideal(o: &Osc) -> Result<f64, String> {
+    Ok(ideal_formula(o.parts.cap.nominal(&o.env), o.parts.charge.nominal(&o.env), v_reset(o), o.params.get("v_hi")))
+}
+
+pub fn cycle(v: &View) -> Result<Cycle, String> {
+    let o = v.o;
+    let vl = v_reset(o);
+    let vref = o.params.get("v_hi") + v.vos_hi();
+    if vref <= vl {
+        return Err(format!("osc(\"pingpong\"): the threshold with offset, {vref:.4} V, is not above the reset level {vl} V"));
+    }
+    let scale_b = if v.on(Parasitic::CapMismatch) { 1.0 + v.p("c_mismatch") } else { 1.0 };
+    // The active capacitor carries the comparator input; the idle one only its switches.
+    let ca = |x: f64| v.cap(x) + v.node(x) + v.cin_hi(x);
+    let cb = |x: f64| v.cap(x) * scale_b + v.node(x) + v.cin_hi(x);
+    let ca_idle = |x: f64| v.cap(x) + v.node(x);
+    let cb_idle = |x: f64| v.cap(x) * scale_b + v.node(x);
+    let up = |x: f64| v.i_ch(x);
+    let d = |s: f64| v.delay_hi(s) + v.chain(true);
+    let r_reset = if v.on(Parasitic::Reset) { v.o.parts.r_reset } else { 0.0 };
+    let discharge = |x: f64| -(x - vl) / r_reset;
+    let one = |[xa, xb]: [f64; 2]| {
+        let a = ramp_phase("capacitor A", &ca, &up, xa, vref, &d)?;
+        let b = ramp_phase("capacitor B", &cb, &up, xb, vref, &d)?;
+        // A resets while B is active, and B while A is active (the same A-phase length in the
+        // steady state).
+        let (na, nb) = if r_reset > 0.0 {
+            (advance(&ca_idle, &discharge, a.v_end, b.ramp + b.delay)?, advance(&cb_idle, &discharge, b.v_end, a.ramp + a.delay)?)
+        } else {
+            (vl, vl)
+        };
+        Ok::<_, String>((a, b, [na, nb]))
+    };
+    let (x0, iterations) = steady(|x| Ok(one(x)?.2), [vl, vl])?;
+    let (a, b, _) = one(x0)?;
+    let period = a.ramp + a.delay + b.ramp + b.delay;
+    let cy = Cycle {
+        period,
+        duty: (a.ramp + a.delay) / period,
+        v_peak: a.v_end.max(b.v_end),
+        v_valley: a.v_start.min(b.v_start),
+        overshoot: (a.v_end - a.v_threshold).max(b.v_end - b.v_threshold),
+        phases: vec![a, b],
+        iterations,
+    };
+    check_rails("pingpong", &cy, v.env.vdd)?;
+    Ok(cy)
+}

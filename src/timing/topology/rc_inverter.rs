@@ -1,0 +1,67 @@
+//! Two-inverter RC astable: inverter 1 (input X, output A), inverter 2 (input A, output B),
+//! R from A to X, C from B to X. Each edge of B kicks X by ±V_DD through C; X then relaxes
+//! through R toward A until it crosses the inverter threshold.
+use super::super::osc::{Cycle, Osc, View};
+use super::super::ramp::steady;
+use super::ramp_phase;
+
+/// Ideal period with inverter threshold V_T: T = RC·[ln((V_DD + V_T)/V_T) + ln((2·V_DD − V_T)/(V_DD − V_T))],
+/// 2·ln 3·RC ≈ 2.2·RC at V_T = V_DD/2 (textbook CMOS two-inverter astable, first-order RC
+/// response after each ±V_DD kick; the 2.2·RC figure is the usual application-note value).
+pub fn ideal_formula(r: f64, c: f64, vdd: f64, vt: f64) -> f64 {
+    r * c * (((vdd + vt) / vt).ln() + ((2.0 * vdd - vt) / (vdd - vt)).ln())
+}
+
+fn threshold(o: &Osc) -> f64 {
+    let vt = o.params.get("v_th");
+    if vt.is_nan() { 0.5 * o.env.vdd } else { vt }
+}
+
+fn resistance(o: &Osc) -> f64 {
+    o.params.get("r") * o.env.tc_factor(o.params.get("tc_r"))
+}
+
+pub fn ideal(o: &Osc) -> Result<f64, String> {
+    let vt = threshold(o);
+    if !(vt > 0.0 && vt < o.env.vdd) {
+        return Err(format!("osc(\"rc-inverter\"): the threshold {vt} V must lie in (0, vdd = {} V)", o.env.vdd));
+    }
+    Ok(ideal_formula(resistance(o), o.parts.cap.nominal(&o.env), o.env.vdd, vt))
+}
+
+pub fn cycle(v: &View) -> Result<Cycle, String> {
+    let o = v.o;
+    let vdd = v.env.vdd;
+    let vt = threshold(o) + v.vos_hi();
+    if !(vt > 0.0 && vt < vdd) {
+        return Err(format!("osc(\"rc-inverter\"): the threshold with its shift, {vt:.4} V, must lie in (0, vdd = {vdd} V)"));
+    }
+    let r = resistance(o);
+    let c0 = o.parts.cap.nominal(v.env);
+    // X sees C (to B) plus the inverter input capacitance to ground; a step of B divides
+    // between them (charge sharing, common practice).
+    let c = |x: f64| c0 + v.cin_hi(x);
+    let kick = |x: f64| vdd * c0 / c(x);
+    let fall = |x: f64| -x / r;
+    let rise = |x: f64| (vdd - x) / r;
+    let d = |_s: f64| v.chain(false);
+    let one = |x0: f64| {
+        let a = ramp_phase("X falls (A low)", &c, &fall, x0, vt, &d)?;
+        let x1 = a.v_end - kick(a.v_end);
+        let b = ramp_phase("X rises (A high)", &c, &rise, x1, vt, &d)?;
+        let x2 = b.v_end + kick(b.v_end);
+        Ok::<_, String>((a, b, x2))
+    };
+    let ([x0], iterations) = steady(|[x]| Ok([one(x)?.2]), [vt + vdd])?;
+    let (a, b, _) = one(x0)?;
+    let period = a.ramp + a.delay + b.ramp + b.delay;
+    Ok(Cycle {
+        period,
+        duty: (a.ramp + a.delay) / period,
+        v_peak: a.v_start,
+        v_valley: b.v_start,
+        overshoot: (vt - a.v_end).max(b.v_end - vt),
+        phases: vec![a, b],
+        iterations,
+    })
+}

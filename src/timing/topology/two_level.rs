@@ -1,0 +1,97 @@
+//! Two-threshold oscillators on one capacitor: the window comparator oscillator (two
+//! comparators, SR latch) and the Schmitt-trigger oscillator (current-starved, or RC).
+use super::super::keys::Kind;
+use super::super::osc::{Cycle, Osc, View};
+use super::super::ramp::steady;
+use super::super::thresholds::schmitt_cmos;
+use super::{check_rails, ramp_phase};
+
+/// Ideal window / current-starved Schmitt oscillator: T = 2·C·(V_hi − V_lo)/I (common practice:
+/// charge balance C·ΔV = I·t over each of two equal ramps).
+pub fn ideal_current(c: f64, i: f64, v_lo: f64, v_hi: f64) -> f64 {
+    2.0 * c * (v_hi - v_lo) / i
+}
+
+/// Ideal RC Schmitt-trigger oscillator charging toward V_DD and discharging toward 0:
+/// T = RC·[ln((V_DD − V_lo)/(V_DD − V_hi)) + ln(V_hi/V_lo)] (first-order RC response between two
+/// thresholds; textbook astable, e.g. Sedra/Smith, Microelectronic Circuits).
+pub fn ideal_rc(r: f64, c: f64, vdd: f64, v_lo: f64, v_hi: f64) -> f64 {
+    r * c * (((vdd - v_lo) / (vdd - v_hi)).ln() + (v_hi / v_lo).ln())
+}
+
+/// Thresholds (v_lo, v_hi) at the operating point: as given, or from the Schmitt trigger's
+/// devices.
+pub fn thresholds(o: &Osc) -> (f64, f64) {
+    let p = &o.params;
+    if let Some(l) = o.parts.levels {
+        l
+    } else if o.kind() == Kind::Schmitt && p.has("vtn") {
+        let dt = p.get("tc_vt") * (o.env.temp_c - super::super::env::T_REF_C);
+        schmitt_cmos(o.env.vdd, p.get("vtn") + dt, p.get("vtp") + dt, p.get("ratio_n"), p.get("ratio_p"))
+    } else {
+        (p.get("v_lo"), p.get("v_hi"))
+    }
+}
+
+fn rc_mode(o: &Osc) -> bool {
+    o.kind() == Kind::Schmitt && o.params.has("r")
+}
+
+fn resistance(o: &Osc) -> f64 {
+    o.params.get("r") * o.env.tc_factor(o.params.get("tc_r"))
+}
+
+pub fn ideal(o: &Osc) -> Result<f64, String> {
+    let (lo, hi) = thresholds(o);
+    check_levels(o, lo, hi)?;
+    let c = o.parts.cap.nominal(&o.env);
+    Ok(if rc_mode(o) { ideal_rc(resistance(o), c, o.env.vdd, lo, hi) } else { ideal_current(c, o.parts.charge.nominal(&o.env), lo, hi) })
+}
+
+fn check_levels(o: &Osc, lo: f64, hi: f64) -> Result<(), String> {
+    let kind = o.kind().name();
+    if !(lo < hi) {
+        return Err(format!("osc(\"{kind}\"): the low threshold {lo:.4} V is not below the high threshold {hi:.4} V"));
+    }
+    if rc_mode(o) && !(lo > 0.0 && hi < o.env.vdd) {
+        return Err(format!("osc(\"{kind}\"): an RC oscillator needs both thresholds strictly inside (0, vdd = {} V); they are {lo:.4} V and {hi:.4} V", o.env.vdd));
+    }
+    Ok(())
+}
+
+pub fn cycle(v: &View) -> Result<Cycle, String> {
+    let o = v.o;
+    let (lo0, hi0) = thresholds(o);
+    let (lo, hi) = (lo0 + v.vos_lo(), hi0 + v.vos_hi());
+    check_levels(o, lo, hi)?;
+    let vdd = v.env.vdd;
+    let rc = rc_mode(o);
+    let r = resistance(o);
+    let c = |x: f64| v.cap(x) + v.node(x) + v.cin_hi(x) + v.cin_lo(x);
+    let up = |x: f64| if rc { (vdd - x) / r } else { v.i_ch(x) };
+    let dn = |x: f64| if rc { -x / r } else { -v.i_dis(x) };
+    let latch = o.kind() == Kind::Window;
+    let d_hi = |s: f64| v.delay_hi(s) + v.chain(latch);
+    let d_lo = |s: f64| v.delay_lo(s) + v.chain(latch);
+    let one = |valley: f64| {
+        let a = ramp_phase("charge", &c, &up, valley, hi, &d_hi)?;
+        let b = ramp_phase("discharge", &c, &dn, a.v_end, lo, &d_lo)?;
+        Ok::<_, String>((a, b))
+    };
+    let ([start], iterations) = steady(|[x]| Ok([one(x)?.1.v_end]), [lo])?;
+    let (a, b) = one(start)?;
+    let period = a.ramp + a.delay + b.ramp + b.delay;
+    let cy = Cycle {
+        period,
+        duty: (a.ramp + a.delay) / period,
+        v_peak: a.v_end.max(a.v_start),
+        v_valley: b.v_end.min(b.v_start),
+        overshoot: (a.v_end - a.v_threshold).max(b.v_threshold - b.v_end),
+        phases: vec![a, b],
+        iterations,
+    };
+    if !rc {
+        check_rails(o.kind().name(), &cy, vdd)?;
+    }
+    Ok(cy)
+}
