@@ -1,0 +1,360 @@
+//! Drawing a [`Plot`] as SVG with plotters: white canvas, light grid, SI-prefixed ticks,
+//! a restrained palette, legend in a corner, label areas sized to their text.
+use plotters::coord::ranged1d::{DefaultFormatting, KeyPointHint, Ranged};
+use plotters::coord::Shift;
+use plotters::prelude::*;
+use plotters::style::text_anchor::{HPos, Pos, VPos};
+
+use super::font::{self, FAMILY};
+use super::ticks::{self, Axis};
+use super::{auto_bins, Kind, Plot};
+
+/// Canvas size in pixels.
+pub const WIDTH: u32 = 800;
+pub const HEIGHT: u32 = 500;
+
+// Text sizes in plotters units (the SVG font-size is these divided by 1.24).
+const TITLE: f64 = 24.0;
+const DESC: f64 = 19.0;
+const TICK: f64 = 17.0;
+const LEGEND: f64 = 17.0;
+
+/// Series colours: ink blue, copper, pine, mulberry, slate, mustard.
+pub const PALETTE: [RGBColor; 6] = [
+    RGBColor(36, 82, 140),
+    RGBColor(196, 98, 45),
+    RGBColor(38, 128, 104),
+    RGBColor(138, 64, 120),
+    RGBColor(96, 104, 112),
+    RGBColor(176, 140, 30),
+];
+const INK: RGBColor = RGBColor(40, 40, 40);
+const AXIS: RGBColor = RGBColor(90, 90, 90);
+const GRID: RGBColor = RGBColor(218, 218, 218);
+const GRID_MINOR: RGBColor = RGBColor(238, 238, 238);
+const TOTAL: RGBColor = RGBColor(70, 70, 70);
+
+type Area<'a> = DrawingArea<SVGBackend<'a>, Shift>;
+type Coords = Cartesian2d<Ticked, Ticked>;
+
+/// A linear coordinate (log axes are laid out in log10) whose grid lines are exactly our ticks.
+#[derive(Clone)]
+struct Ticked(Axis);
+
+impl Ranged for Ticked {
+    type FormatOption = DefaultFormatting;
+    type ValueType = f64;
+    fn map(&self, v: &f64, limit: (i32, i32)) -> i32 {
+        let t = (v - self.0.lo) / (self.0.hi - self.0.lo);
+        limit.0 + ((limit.1 - limit.0) as f64 * t + 1e-3).floor() as i32
+    }
+    fn key_points<Hint: KeyPointHint>(&self, hint: Hint) -> Vec<f64> {
+        if hint.weight().allow_light_points() { self.0.minor.clone() } else { self.0.ticks.clone() }
+    }
+    fn range(&self) -> std::ops::Range<f64> {
+        self.0.lo..self.0.hi
+    }
+}
+type Chart<'a, 'b> = ChartContext<'a, SVGBackend<'b>, Coords>;
+
+fn pe<E: std::fmt::Display>(e: E) -> String {
+    format!("drawing failed: {e}")
+}
+
+/// The SVG text of a checked plot.
+pub fn render(p: &Plot) -> Result<String, String> {
+    p.check()?;
+    font::ensure()?;
+    let mut out = String::new();
+    {
+        let root = SVGBackend::with_string(&mut out, (WIDTH, HEIGHT)).into_drawing_area();
+        root.fill(&WHITE).map_err(pe)?;
+        match p.kind {
+            Kind::Line | Kind::Scatter | Kind::Step => xy(&root, p)?,
+            Kind::Histogram => histogram(&root, p)?,
+            Kind::Bar => bars(&root, p)?,
+        }
+        root.present().map_err(pe)?;
+    }
+    Ok(out)
+}
+
+/// Axis description with the unit: `period (s)`.
+fn desc(label: &str, unit: &str) -> String {
+    match (label.is_empty(), unit.is_empty()) {
+        (_, true) => label.to_string(),
+        (true, false) => format!("({unit})"),
+        (false, false) => format!("{label} ({unit})"),
+    }
+}
+
+fn text_w(root: &Area, t: &str, size: f64) -> u32 {
+    root.estimate_text_size(t, &TextStyle::from((FAMILY, size).into_font())).map(|s| s.0).unwrap_or((t.len() as f64 * size * 0.6) as u32)
+}
+
+/// Finite (min, max) of values, or None.
+fn extent<'a>(vals: impl Iterator<Item = &'a f64>) -> Option<(f64, f64)> {
+    vals.filter(|v| v.is_finite()).fold(None, |acc, &v| match acc {
+        None => Some((v, v)),
+        Some((a, b)) => Some((a.min(v), b.max(v))),
+    })
+}
+
+/// The title's font size, shrunk until it fits the width.
+fn title_size(root: &Area, t: &str) -> f64 {
+    let mut s = TITLE;
+    while s > 14.0 && text_w(root, t, s) + 40 > WIDTH {
+        s -= 1.0;
+    }
+    s
+}
+
+/// Chart with label areas that fit the tick labels and descriptions; draws the mesh.
+fn chart<'a, 'b>(
+    root: &'a Area<'b>,
+    p: &Plot,
+    xa: &Axis,
+    ya: &Axis,
+    x_fmt: &'a dyn Fn(&f64) -> String,
+    y_fmt: &'a dyn Fn(&f64) -> String,
+    x_desc: &str,
+    y_desc: &str,
+) -> Result<Chart<'a, 'b>, String> {
+    let y_tick_w = ya.ticks.iter().map(|t| text_w(root, &y_fmt(t), TICK)).max().unwrap_or(0);
+    let y_area = y_tick_w + 16 + if y_desc.is_empty() { 0 } else { (DESC * 1.1) as u32 + 8 };
+    let x_area = (TICK * 1.0) as u32 + 14 + if x_desc.is_empty() { 0 } else { (DESC * 1.1) as u32 + 10 };
+    // Room on the right for half of the last x tick label.
+    let last_x = xa.ticks.last().map(|t| text_w(root, &x_fmt(t), TICK) / 2).unwrap_or(0);
+    let mut b = ChartBuilder::on(root);
+    b.margin_top(12).margin_left(14).margin_bottom(10).margin_right(last_x.max(18) + 8);
+    if !p.title.is_empty() {
+        b.caption(&p.title, (FAMILY, title_size(root, &p.title)).into_font().style(FontStyle::Bold).color(&INK));
+    }
+    b.x_label_area_size(x_area).y_label_area_size(y_area);
+    let mut c = b
+        .build_cartesian_2d(
+            Ticked(xa.clone()),
+            Ticked(ya.clone()),
+        )
+        .map_err(pe)?;
+    let mut m = c.configure_mesh();
+    m.x_labels(1000)
+        .y_labels(1000)
+        .x_label_formatter(x_fmt)
+        .y_label_formatter(y_fmt)
+        .label_style((FAMILY, TICK).into_font().color(&INK))
+        .axis_desc_style((FAMILY, DESC).into_font().color(&INK))
+        .bold_line_style(GRID.stroke_width(1))
+        .light_line_style(GRID_MINOR.stroke_width(1))
+        .axis_style(AXIS.stroke_width(1))
+        .set_all_tick_mark_size(4);
+    if !x_desc.is_empty() {
+        m.x_desc(x_desc);
+    }
+    if !y_desc.is_empty() {
+        m.y_desc(y_desc);
+    }
+    m.draw().map_err(pe)?;
+    Ok(c)
+}
+
+fn axis_for(vals: (f64, f64), log: bool, target: usize, exact: bool) -> Axis {
+    if log { ticks::log(vals.0, vals.1) } else { ticks::linear(vals.0, vals.1, target, false, exact) }
+}
+
+fn legend<'a, 'b: 'a>(c: &mut Chart<'a, 'b>, p: &Plot) -> Result<(), String> {
+    if p.names.is_empty() {
+        return Ok(());
+    }
+    c.configure_series_labels()
+        .position(SeriesLabelPosition::UpperRight)
+        .margin(12)
+        .legend_area_size(28)
+        .label_font((FAMILY, LEGEND).into_font().color(&INK))
+        .background_style(WHITE.mix(0.9))
+        .border_style(GRID)
+        .draw()
+        .map_err(pe)
+}
+
+/// Line, scatter and step charts.
+fn xy(root: &Area, p: &Plot) -> Result<(), String> {
+    let xr = extent(p.x.iter()).ok_or("plot: 'x' has no finite value")?;
+    let yr = extent(p.ys.iter().flatten()).ok_or("plot: 'y' has no finite value")?;
+    let xa = axis_for(xr, p.log_x, 7, p.kind != Kind::Scatter);
+    let ya = axis_for(yr, p.log_y, 6, false);
+    let xf = |c: &f64| xa.label(*c, &p.x_unit);
+    let yf = |c: &f64| ya.label(*c, &p.y_unit);
+    let mut c = chart(root, p, &xa, &ya, &xf, &yf, &desc(&p.x_label, &p.x_unit), &desc(&p.y_label, &p.y_unit))?;
+    for (k, y) in p.ys.iter().enumerate() {
+        let color = PALETTE[k % PALETTE.len()];
+        let pts: Vec<(f64, f64)> = p.x.iter().zip(y).map(|(&a, &b)| (a, b)).collect();
+        let pts = if p.kind == Kind::Step { staircase(&pts) } else { pts };
+        // Runs of finite points: a NaN breaks the line instead of being drawn.
+        let mut runs: Vec<Vec<(f64, f64)>> = vec![vec![]];
+        for (a, b) in pts {
+            if a.is_finite() && b.is_finite() {
+                runs.last_mut().map(|r| r.push((xa.to_coord(a), ya.to_coord(b))));
+            } else if !runs.last().is_some_and(|r| r.is_empty()) {
+                runs.push(vec![]);
+            }
+        }
+        let style = color.stroke_width(2);
+        let mut labelled = false;
+        for run in runs.into_iter().filter(|r| !r.is_empty()) {
+            let ann = if p.kind == Kind::Scatter {
+                c.draw_series(run.into_iter().map(|q| Circle::new(q, 3, color.filled()))).map_err(pe)?
+            } else {
+                c.draw_series(LineSeries::new(run, style)).map_err(pe)?
+            };
+            if !labelled {
+                if let Some(name) = p.names.get(k) {
+                    let scatter = p.kind == Kind::Scatter;
+                    ann.label(name.as_str()).legend(move |(x, y)| {
+                        if scatter {
+                            EmptyElement::at((x + 10, y)) + Circle::new((0, 0), 4, color.filled())
+                        } else {
+                            EmptyElement::at((x, y)) + Circle::new((0, 0), 0, color.filled())
+                        }
+                    });
+                    if !scatter {
+                        // The legend mark of a line is a short line; drawn by a second label hook.
+                    }
+                }
+                labelled = true;
+            }
+        }
+    }
+    legend(&mut c, p)
+}
+
+/// Post-step staircase: each y holds from its x to the next x.
+fn staircase(pts: &[(f64, f64)]) -> Vec<(f64, f64)> {
+    let mut v = Vec::with_capacity(pts.len() * 2);
+    for (k, &(x, y)) in pts.iter().enumerate() {
+        if k > 0 {
+            v.push((x, pts[k - 1].1));
+        }
+        v.push((x, y));
+    }
+    v
+}
+
+/// Histograms of one or more sample sets on common bins.
+fn histogram(root: &Area, p: &Plot) -> Result<(), String> {
+    let (lo, hi) = extent(p.ys.iter().flatten()).ok_or("plot: 'x' has no finite value")?;
+    let all: Vec<f64> = p.ys.iter().flatten().copied().collect();
+    let nb = p.bins.unwrap_or_else(|| auto_bins(&all)).max(1);
+    let (lo, hi) = if hi > lo { (lo, hi) } else { (lo - 0.5 * lo.abs().max(1e-30), hi + 0.5 * hi.abs().max(1e-30)) };
+    let w = (hi - lo) / nb as f64;
+    let counts: Vec<Vec<usize>> = p
+        .ys
+        .iter()
+        .map(|s| {
+            let mut c = vec![0usize; nb];
+            for &v in s.iter().filter(|v| v.is_finite()) {
+                let k = (((v - lo) / w).floor() as usize).min(nb - 1);
+                c[k] += 1;
+            }
+            c
+        })
+        .collect();
+    let top = counts.iter().flatten().copied().max().unwrap_or(1).max(1) as f64;
+    let xa = ticks::linear(lo, hi, 7, false, false);
+    let ya = ticks::linear(0.0, top * 1.08, 6, true, false);
+    let xf = |c: &f64| xa.label(*c, &p.x_unit);
+    let yf = |c: &f64| {
+        let t = ya.label(*c, "");
+        if t.contains('.') { String::new() } else { t }
+    };
+    let y_desc = if p.y_label.is_empty() { "count".to_string() } else { p.y_label.clone() };
+    let mut c = chart(root, p, &xa, &ya, &xf, &yf, &desc(&p.x_label, &p.x_unit), &y_desc)?;
+    let alpha = if p.ys.len() > 1 { 0.45 } else { 0.75 };
+    for (k, cs) in counts.iter().enumerate() {
+        let color = PALETTE[k % PALETTE.len()];
+        let rects = cs.iter().enumerate().filter(|(_, n)| **n > 0).map(|(i, &n)| {
+            let x0 = lo + w * i as f64;
+            Rectangle::new([(x0, 0.0), (x0 + w, n as f64)], color.mix(alpha).filled())
+        });
+        let ann = c.draw_series(rects).map_err(pe)?;
+        if let Some(name) = p.names.get(k) {
+            ann.label(name.as_str()).legend(move |(x, y)| Rectangle::new([(x, y - 6), (x + 18, y + 6)], color.mix(alpha).filled()));
+        }
+        let outlines = cs.iter().enumerate().filter(|(_, n)| **n > 0).map(|(i, &n)| {
+            let x0 = lo + w * i as f64;
+            Rectangle::new([(x0, 0.0), (x0 + w, n as f64)], color.stroke_width(1))
+        });
+        c.draw_series(outlines).map_err(pe)?;
+    }
+    legend(&mut c, p)
+}
+
+/// Horizontal bars, first label on top; a waterfall stacks them and ends with the total.
+fn bars(root: &Area, p: &Plot) -> Result<(), String> {
+    let vals = &p.ys[0];
+    let mut labels: Vec<String> = p.labels.clone();
+    // (start, end, colour) of each bar.
+    let mut spans: Vec<(f64, f64, RGBColor)> = Vec::new();
+    let mut cum = 0.0;
+    for &v in vals {
+        let start = if p.waterfall { cum } else { 0.0 };
+        let color = if v >= 0.0 { PALETTE[0] } else { PALETTE[1] };
+        spans.push((start, start + v, color));
+        cum += v;
+    }
+    if p.waterfall {
+        spans.push((0.0, cum, TOTAL));
+        labels.push(p.total_label.clone());
+    }
+    let n = spans.len();
+    let ends = spans.iter().flat_map(|s| [s.0, s.1]).chain([0.0]);
+    let (lo, hi) = extent(ends.collect::<Vec<_>>().iter()).unwrap_or((0.0, 1.0));
+    let span = (hi - lo).max(f64::MIN_POSITIVE);
+    // Room beside the bar ends for the value labels.
+    let lo = if lo < 0.0 { lo - 0.18 * span } else { lo };
+    let hi = if hi > 0.0 { hi + 0.18 * span } else { hi };
+    let xa = ticks::linear(lo, hi, 6, true, false);
+    let ya = Axis { lo: -0.6, hi: n as f64 - 0.4, ticks: (0..n).map(|k| k as f64).collect(), minor: vec![], log: false };
+    let shown: Vec<String> = labels.iter().map(|l| fit(root, l, 300)).collect();
+    let xf = |c: &f64| xa.label(*c, &p.y_unit);
+    let yf = |c: &f64| {
+        let k = c.round() as i64;
+        if k < 0 || k >= n as i64 { String::new() } else { shown[n - 1 - k as usize].clone() }
+    };
+    let mut c = chart(root, p, &xa, &ya, &xf, &yf, &desc(&p.y_label, &p.y_unit), &p.x_label)?;
+    let row = |k: usize| (n - 1 - k) as f64;
+    c.draw_series(spans.iter().enumerate().map(|(k, &(a, b, col))| {
+        Rectangle::new([(a, row(k) - 0.32), (b, row(k) + 0.32)], col.filled())
+    }))
+    .map_err(pe)?;
+    if p.waterfall {
+        // Thin connectors from each bar's end to the next bar's start.
+        c.draw_series((0..n.saturating_sub(1)).map(|k| {
+            let x = spans[k].1;
+            PathElement::new(vec![(x, row(k) - 0.32), (x, row(k + 1) + 0.32)], AXIS.stroke_width(1))
+        }))
+        .map_err(pe)?;
+    }
+    let font = (FAMILY, TICK).into_font().color(&INK);
+    c.draw_series(spans.iter().enumerate().map(|(k, &(a, b, _))| {
+        let v = b - a;
+        let right = b >= a;
+        let text = crate::report::format::value(v, &p.y_unit, 3);
+        let pos = Pos::new(if right { HPos::Left } else { HPos::Right }, VPos::Center);
+        EmptyElement::at((b, row(k))) + Text::new(text, (if right { 6 } else { -6 }, 0), font.clone().pos(pos))
+    }))
+    .map_err(pe)?;
+    Ok(())
+}
+
+/// `t`, cut with an ellipsis to at most `max` pixels wide.
+fn fit(root: &Area, t: &str, max: u32) -> String {
+    if text_w(root, t, TICK) <= max {
+        return t.to_string();
+    }
+    let mut s: Vec<char> = t.chars().collect();
+    while !s.is_empty() && text_w(root, &format!("{}…", s.iter().collect::<String>()), TICK) > max {
+        s.pop();
+    }
+    format!("{}…", s.iter().collect::<String>())
+}
