@@ -44,6 +44,14 @@ pub fn write_atomic(path: &Path, bytes: &[u8]) -> io::Result<()> {
     };
     let mut tmp = tempfile::Builder::new().prefix(".tickwork-").suffix(".tmp").tempfile_in(dir)?;
     tmp.write_all(bytes)?;
+    // A temporary file is private (0600); a report is an ordinary file: keep the mode of the
+    // file it replaces, or rw-r--r--.
+    #[cfg(unix)]
+    {
+        use std::os::unix::fs::PermissionsExt;
+        let mode = std::fs::metadata(path).map(|m| m.permissions().mode()).unwrap_or(0o644);
+        tmp.as_file().set_permissions(std::fs::Permissions::from_mode(mode))?;
+    }
     tmp.as_file().sync_all()?;
     tmp.persist(path).map_err(|e| e.error)?;
     Ok(())

@@ -122,7 +122,7 @@ fn chart<'a, 'b>(
 ) -> Result<Chart<'a, 'b>, String> {
     let y_tick_w = ya.ticks.iter().map(|t| text_w(root, &y_fmt(t), TICK)).max().unwrap_or(0);
     let y_area = y_tick_w + 16 + if y_desc.is_empty() { 0 } else { (DESC * 1.1) as u32 + 8 };
-    let x_area = (TICK * 1.0) as u32 + 14 + if x_desc.is_empty() { 0 } else { (DESC * 1.1) as u32 + 10 };
+    let x_area = TICK as u32 + 10 + if x_desc.is_empty() { 0 } else { DESC as u32 + 6 };
     // Room on the right for half of the last x tick label.
     let last_x = xa.ticks.last().map(|t| text_w(root, &x_fmt(t), TICK) / 2).unwrap_or(0);
     let mut b = ChartBuilder::on(root);
@@ -162,12 +162,12 @@ fn axis_for(vals: (f64, f64), log: bool, target: usize, exact: bool) -> Axis {
     if log { ticks::log(vals.0, vals.1) } else { ticks::linear(vals.0, vals.1, target, false, exact) }
 }
 
-fn legend<'a, 'b: 'a>(c: &mut Chart<'a, 'b>, p: &Plot) -> Result<(), String> {
+fn legend<'a, 'b: 'a>(c: &mut Chart<'a, 'b>, p: &Plot, occupied: &[(f64, f64)]) -> Result<(), String> {
     if p.names.is_empty() {
         return Ok(());
     }
     c.configure_series_labels()
-        .position(SeriesLabelPosition::UpperRight)
+        .position(legend_corner(occupied))
         .margin(12)
         .legend_area_size(28)
         .label_font((FAMILY, LEGEND).into_font().color(&INK))
@@ -175,6 +175,32 @@ fn legend<'a, 'b: 'a>(c: &mut Chart<'a, 'b>, p: &Plot) -> Result<(), String> {
         .border_style(GRID)
         .draw()
         .map_err(pe)
+}
+
+/// Position of drawing coordinate `c` along an axis, 0 at `lo`, 1 at `hi`.
+fn unit(a: &Axis, c: f64) -> f64 {
+    (c - a.lo) / (a.hi - a.lo)
+}
+
+/// The plot corner holding the fewest of the points (unit coordinates, y up); ties go to
+/// upper right, upper left, lower right, lower left, in that order.
+fn legend_corner(pts: &[(f64, f64)]) -> SeriesLabelPosition {
+    let corners = [
+        (SeriesLabelPosition::UpperRight, 0.55, 1.0, 0.65, 1.0),
+        (SeriesLabelPosition::UpperLeft, 0.0, 0.45, 0.65, 1.0),
+        (SeriesLabelPosition::LowerRight, 0.55, 1.0, 0.0, 0.35),
+        (SeriesLabelPosition::LowerLeft, 0.0, 0.45, 0.0, 0.35),
+    ];
+    let count = |&(_, x0, x1, y0, y1): &(SeriesLabelPosition, f64, f64, f64, f64)| {
+        pts.iter().filter(|(x, y)| *x >= x0 && *x <= x1 && *y >= y0 && *y <= y1).count()
+    };
+    let mut best = 0;
+    for k in 1..corners.len() {
+        if count(&corners[k]) < count(&corners[best]) {
+            best = k;
+        }
+    }
+    corners[best].0.clone()
 }
 
 /// Line, scatter and step charts.
@@ -209,23 +235,37 @@ fn xy(root: &Area, p: &Plot) -> Result<(), String> {
             };
             if !labelled {
                 if let Some(name) = p.names.get(k) {
-                    let scatter = p.kind == Kind::Scatter;
-                    ann.label(name.as_str()).legend(move |(x, y)| {
-                        if scatter {
-                            EmptyElement::at((x + 10, y)) + Circle::new((0, 0), 4, color.filled())
-                        } else {
-                            EmptyElement::at((x, y)) + Circle::new((0, 0), 0, color.filled())
-                        }
-                    });
-                    if !scatter {
-                        // The legend mark of a line is a short line; drawn by a second label hook.
+                    let a = ann.label(name.as_str());
+                    if p.kind == Kind::Scatter {
+                        a.legend(move |(x, y)| Circle::new((x + 10, y), 4, color.filled()));
+                    } else {
+                        a.legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 20, y)], color.stroke_width(2)));
                     }
                 }
                 labelled = true;
             }
         }
     }
-    legend(&mut c, p)
+    // Where the legend would hide the fewest points: the data in unit coordinates, with
+    // points between samples so that a line through a corner counts.
+    let mut occ = Vec::new();
+    for y in &p.ys {
+        let pts: Vec<(f64, f64)> = p
+            .x
+            .iter()
+            .zip(y)
+            .filter(|(a, b)| a.is_finite() && b.is_finite())
+            .map(|(a, b)| (unit(&xa, xa.to_coord(*a)), unit(&ya, ya.to_coord(*b))))
+            .collect();
+        for w in pts.windows(2) {
+            for k in 0..8 {
+                let t = k as f64 / 8.0;
+                occ.push((w[0].0 + t * (w[1].0 - w[0].0), w[0].1 + t * (w[1].1 - w[0].1)));
+            }
+        }
+        occ.extend(pts.last());
+    }
+    legend(&mut c, p, &occ)
 }
 
 /// Post-step staircase: each y holds from its x to the next x.
@@ -260,7 +300,7 @@ fn histogram(root: &Area, p: &Plot) -> Result<(), String> {
         })
         .collect();
     let top = counts.iter().flatten().copied().max().unwrap_or(1).max(1) as f64;
-    let xa = ticks::linear(lo, hi, 7, false, false);
+    let xa = ticks::linear(lo, hi, 7, false, true);
     let ya = ticks::linear(0.0, top * 1.08, 6, true, false);
     let xf = |c: &f64| xa.label(*c, &p.x_unit);
     let yf = |c: &f64| {
@@ -286,7 +326,16 @@ fn histogram(root: &Area, p: &Plot) -> Result<(), String> {
         });
         c.draw_series(outlines).map_err(pe)?;
     }
-    legend(&mut c, p)
+    let mut occ = Vec::new();
+    for cs in &counts {
+        for (i, &n) in cs.iter().enumerate() {
+            let xc = unit(&xa, lo + w * (i as f64 + 0.5));
+            for k in 0..=10 {
+                occ.push((xc, unit(&ya, n as f64 * k as f64 / 10.0)));
+            }
+        }
+    }
+    legend(&mut c, p, &occ)
 }
 
 /// Horizontal bars, first label on top; a waterfall stacks them and ends with the total.
@@ -340,6 +389,8 @@ fn bars(root: &Area, p: &Plot) -> Result<(), String> {
         let v = b - a;
         let right = b >= a;
         let text = crate::report::format::value(v, &p.y_unit, 3);
+        // Contributions of a waterfall carry their sign; the total does not.
+        let text = if p.waterfall && k < vals.len() && v >= 0.0 { format!("+{text}") } else { text };
         let pos = Pos::new(if right { HPos::Left } else { HPos::Right }, VPos::Center);
         EmptyElement::at((b, row(k))) + Text::new(text, (if right { 6 } else { -6 }, 0), font.clone().pos(pos))
     }))
