@@ -100,13 +100,21 @@ fn extent<'a>(vals: impl Iterator<Item = &'a f64>) -> Option<(f64, f64)> {
     })
 }
 
-/// The title's font size, shrunk until it fits the width.
-fn title_size(root: &Area, t: &str) -> f64 {
+/// The title and its font size: shrunk until it fits the width, then cut with an ellipsis.
+/// The title is bold; its width is estimated from the regular face, 12 % wider.
+fn title_fit(root: &Area, t: &str) -> (String, f64) {
+    let w = |t: &str, s: f64| (text_w(root, t, s) as f64 * 1.12) as u32;
     let mut s = TITLE;
-    while s > 14.0 && text_w(root, t, s) + 40 > WIDTH {
+    while s > 18.0 && w(t, s) + 40 > WIDTH {
         s -= 1.0;
     }
-    s
+    let mut chars: Vec<char> = t.chars().collect();
+    let mut shown = t.to_string();
+    while w(&shown, s) + 40 > WIDTH && !chars.is_empty() {
+        chars.pop();
+        shown = format!("{}…", chars.iter().collect::<String>().trim_end());
+    }
+    (shown, s)
 }
 
 /// Chart with label areas that fit the tick labels and descriptions; draws the mesh.
@@ -128,7 +136,8 @@ fn chart<'a, 'b>(
     let mut b = ChartBuilder::on(root);
     b.margin_top(12).margin_left(14).margin_bottom(10).margin_right(last_x.max(18) + 8);
     if !p.title.is_empty() {
-        b.caption(&p.title, (FAMILY, title_size(root, &p.title)).into_font().style(FontStyle::Bold).color(&INK));
+        let (t, size) = title_fit(root, &p.title);
+        b.caption(t, (FAMILY, size).into_font().style(FontStyle::Bold).color(&INK));
     }
     b.x_label_area_size(x_area).y_label_area_size(y_area);
     let mut c = b
@@ -362,7 +371,8 @@ fn bars(root: &Area, p: &Plot) -> Result<(), String> {
     // Room beside the bar ends for the value labels.
     let lo = if lo < 0.0 { lo - 0.18 * span } else { lo };
     let hi = if hi > 0.0 { hi + 0.18 * span } else { hi };
-    let xa = ticks::linear(lo, hi, 6, true, false);
+    let mut xa = ticks::linear(lo, hi, 6, true, false);
+    xa.minor.clear();
     let ya = Axis { lo: -0.6, hi: n as f64 - 0.4, ticks: (0..n).map(|k| k as f64).collect(), minor: vec![], log: false };
     let shown: Vec<String> = labels.iter().map(|l| fit(root, l, 300)).collect();
     let xf = |c: &f64| xa.label(*c, &p.y_unit);

@@ -52,7 +52,8 @@ pub fn linear(a: f64, b: f64, target: usize, from_zero: bool, exact: bool) -> Ax
         // k * step, not repeated addition, so 0 is exactly 0.
         ticks.push(if k == 0 { 0.0 } else { t });
     }
-    let minor_step = step / if (step / 10f64.powf(step.log10().floor()) - 2.5).abs() < 1e-9 { 5.0 } else { 2.0 };
+    // One unlabelled grid line halfway between ticks.
+    let minor_step = step / 2.0;
     let mut minor = Vec::new();
     let mf = (lo / minor_step - 1e-9).ceil() as i64;
     let ml = (hi / minor_step + 1e-9).floor() as i64;
