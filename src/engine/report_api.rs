@@ -241,18 +241,19 @@ fn table(s: &Shared, data: &Dynamic, opts: &Map) -> R<()> {
 
 /// One series or several from a plot key: a Series, an array of numbers, or an array of those.
 fn series_list(key: &str, v: &Dynamic) -> R<Vec<Vec<f64>>> {
-    if let Some(a) = v.clone().try_cast::<Array>() {
-        if !a.is_empty() && a.iter().all(|x| x.is::<Series>() || x.is::<Array>()) {
-            return a
-                .iter()
-                .enumerate()
-                .map(|(k, x)| match as_series(x) {
-                    Some(Ok(s)) => Ok(s.to_vec()),
-                    Some(Err(e)) => err(format!("plot: series {} of '{key}': {e}", k + 1)),
-                    None => err(format!("plot: series {} of '{key}' is not numbers", k + 1)),
-                })
-                .collect();
-        }
+    if let Some(a) = v.clone().try_cast::<Array>()
+        && !a.is_empty()
+        && a.iter().all(|x| x.is::<Series>() || x.is::<Array>())
+    {
+        return a
+            .iter()
+            .enumerate()
+            .map(|(k, x)| match as_series(x) {
+                Some(Ok(s)) => Ok(s.to_vec()),
+                Some(Err(e)) => err(format!("plot: series {} of '{key}': {e}", k + 1)),
+                None => err(format!("plot: series {} of '{key}' is not numbers", k + 1)),
+            })
+            .collect();
     }
     match as_series(v) {
         Some(Ok(s)) => Ok(vec![s.to_vec()]),

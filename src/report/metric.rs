@@ -47,16 +47,16 @@ impl Metric {
             return Err(format!("metric '{name}': the value is {value}; a metric must be a finite number"));
         }
         for (k, v) in [("min", spec.min), ("max", spec.max)] {
-            if let Some(x) = v {
-                if !x.is_finite() {
-                    return Err(format!("metric '{name}': spec {k} is {x}; it must be a finite number"));
-                }
+            if let Some(x) = v
+                && !x.is_finite()
+            {
+                return Err(format!("metric '{name}': spec {k} is {x}; it must be a finite number"));
             }
         }
-        if let (Some(a), Some(b)) = (spec.min, spec.max) {
-            if a > b {
-                return Err(format!("metric '{name}': spec min {a} is above spec max {b}"));
-            }
+        if let (Some(a), Some(b)) = (spec.min, spec.max)
+            && a > b
+        {
+            return Err(format!("metric '{name}': spec min {a} is above spec max {b}"));
         }
         Ok(Metric { name: name.to_string(), value, unit: unit.to_string(), spec })
     }

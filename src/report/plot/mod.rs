@@ -100,10 +100,10 @@ impl Plot {
                         return Err(format!("plot: 'x' has {} values but {} of 'y' has {}", self.x.len(), series(k), y.len()));
                     }
                 }
-                if self.log_x {
-                    if let Some(v) = self.x.iter().find(|v| v.is_finite() && **v <= 0.0) {
-                        return Err(format!("plot: log_x needs x > 0, but 'x' holds {v}"));
-                    }
+                if self.log_x
+                    && let Some(v) = self.x.iter().find(|v| v.is_finite() && **v <= 0.0)
+                {
+                    return Err(format!("plot: log_x needs x > 0, but 'x' holds {v}"));
                 }
                 if !self.x.iter().any(|v| v.is_finite()) {
                     return Err("plot: 'x' has no finite value".into());
@@ -113,10 +113,10 @@ impl Plot {
                 if self.log_x || self.log_y {
                     return Err("plot: a histogram has linear axes; remove log_x/log_y".into());
                 }
-                if let Some(b) = self.bins {
-                    if !(1..=1000).contains(&b) {
-                        return Err(format!("plot: bins must be in 1..=1000, got {b}"));
-                    }
+                if let Some(b) = self.bins
+                    && !(1..=1000).contains(&b)
+                {
+                    return Err(format!("plot: bins must be in 1..=1000, got {b}"));
                 }
             }
             Kind::Bar => {
@@ -139,10 +139,10 @@ impl Plot {
             if !y.iter().any(|v| v.is_finite()) {
                 return Err(format!("plot: {} of {what} has no finite value", series(k)));
             }
-            if self.log_y {
-                if let Some(v) = y.iter().find(|v| v.is_finite() && **v <= 0.0) {
-                    return Err(format!("plot: log_y needs y > 0, but {} holds {v}", series(k)));
-                }
+            if self.log_y
+                && let Some(v) = y.iter().find(|v| v.is_finite() && **v <= 0.0)
+            {
+                return Err(format!("plot: log_y needs y > 0, but {} holds {v}", series(k)));
             }
         }
         Ok(())

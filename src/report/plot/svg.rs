@@ -118,6 +118,7 @@ fn title_fit(root: &Area, t: &str) -> (String, f64) {
 }
 
 /// Chart with label areas that fit the tick labels and descriptions; draws the mesh.
+#[allow(clippy::too_many_arguments)]
 fn chart<'a, 'b>(
     root: &'a Area<'b>,
     p: &Plot,
@@ -229,7 +230,9 @@ fn xy(root: &Area, p: &Plot) -> Result<(), String> {
         let mut runs: Vec<Vec<(f64, f64)>> = vec![vec![]];
         for (a, b) in pts {
             if a.is_finite() && b.is_finite() {
-                runs.last_mut().map(|r| r.push((xa.to_coord(a), ya.to_coord(b))));
+                if let Some(r) = runs.last_mut() {
+                    r.push((xa.to_coord(a), ya.to_coord(b)));
+                }
             } else if !runs.last().is_some_and(|r| r.is_empty()) {
                 runs.push(vec![]);
             }
