@@ -266,3 +266,17 @@ fn repl_save_report_writes_inside_the_output_folder() {
     assert!(d.path().join("out/repl/today/results.json").exists());
     assert!(!d.path().join("out/escape").exists());
 }
+
+#[test]
+fn provenance_lists_imported_project_modules_with_their_hash() {
+    let d = tempfile::tempdir().unwrap();
+    let helper = "fn double(x) { x * 2.0 }\n";
+    std::fs::write(d.path().join("helpers.rhai"), helper).unwrap();
+    let script = "import \"helpers\" as h;\nimport \"ratio\" as r;\nshow(\"twice\", h::double(1.5));\n";
+    let o = run(d.path(), script, &[]);
+    assert_eq!(o.status.code(), Some(0), "{}", String::from_utf8_lossy(&o.stderr));
+    let md = std::fs::read_to_string(out_dir(d.path()).join("report.md")).unwrap();
+    let sha = tickwork::report::provenance::sha256_hex(helper.as_bytes());
+    assert!(md.contains(&format!("- files read:\n  - `helpers.rhai` (SHA-256 `{sha}`)\n- overrides")), "{md}");
+    assert!(!md.contains("stdlib/"), "built-in modules come with the tool version: {md}");
+}

@@ -110,7 +110,7 @@ fn run_one(a: &RunArgs, file: &Path, sets: &BTreeMap<String, String>) -> i32 {
         tool: report::Provenance::tool(),
         script: Some(script_path),
         script_sha256: Some(report::provenance::sha256_hex(text.as_bytes())),
-        inputs: g.inputs.clone(),
+        inputs: engine::report_api::included_files(&g, Some(&shown)),
         overrides: g.overrides.clone(),
         seed: g.seed,
         stamp: a.stamp.then(report::provenance::utc_now),

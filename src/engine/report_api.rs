@@ -372,6 +372,35 @@ fn metric(s: &Shared, name: &str, v: &Dynamic, unit: &str, spec: &Map) -> R<()> 
     Ok(())
 }
 
+/// Every file the run read, for the provenance: data files in the order they were read, then
+/// the script modules it imported from the project (by path). Built-in `stdlib/` modules are
+/// part of the tool version and the REPL's own entries are not files, so neither is listed.
+pub fn included_files(g: &super::session::Session, script: Option<&str>) -> Vec<(String, String)> {
+    let mut v = g.inputs.clone();
+    let mut modules: Vec<(String, String)> = g
+        .sources
+        .files
+        .iter()
+        .filter(|(name, _)| Some(name.as_str()) != script && !name.starts_with("repl["))
+        .filter(|(name, (text, _))| {
+            let builtin = name
+                .strip_prefix("stdlib/")
+                .and_then(|n| n.strip_suffix(".rhai"))
+                .and_then(super::stdlib::get)
+                .is_some_and(|src| src == text);
+            !builtin
+        })
+        .map(|(name, (text, _))| (name.clone(), crate::report::provenance::sha256_hex(text.as_bytes())))
+        .collect();
+    modules.sort();
+    for m in modules {
+        if !v.iter().any(|(p, _)| *p == m.0) {
+            v.push(m);
+        }
+    }
+    v
+}
+
 fn save_report(s: &Shared, dir: &str) -> R<String> {
     let g = s.lock();
     let path = g.sandbox.writable(dir).map_err(|e| format!("save_report: {e}"))?;
@@ -379,7 +408,7 @@ fn save_report(s: &Shared, dir: &str) -> R<String> {
         tool: Provenance::tool(),
         script: None,
         script_sha256: None,
-        inputs: g.inputs.clone(),
+        inputs: included_files(&g, None),
         overrides: g.overrides.clone(),
         seed: g.seed,
         stamp: None,
