@@ -38,6 +38,7 @@ fn show_formats() {
     assert_eq!(shown("show(\"s\", span(1n, 3n, 3), \"s\");"), "n = 3, min 1.00 ns, mean 2.00 ns, max 3.00 ns");
     assert_eq!(shown("show(\"s\", span(1n, 3n, 3), \"s\", #{full: true});"), "[1.00 ns, 2.00 ns, 3.00 ns]");
     assert_eq!(shown("show(\"a\", [1.0, 2.0], \"V\");"), "n = 2, min 1.00 V, mean 1.50 V, max 2.00 V");
+    assert_eq!(shown("show(\"codes\", series([3.0, 4.0]), #{full: true, digits: 2});"), "[3.0, 4.0]");
     assert!(run("show(\"x\", 1.0, \"s\", #{all: true});").unwrap_err().contains("unknown key 'all'; the keys are full, digits"));
 }
 

@@ -116,7 +116,10 @@ fn run_one(a: &RunArgs, file: &Path, sets: &BTreeMap<String, String>) -> i32 {
         stamp: a.stamp.then(report::provenance::utc_now),
     };
     if let Err(e) = report::output::write(&g.report, &prov, &out_dir) {
-        eprintln!("{shown}: cannot write the report into {}: {e}", out_dir.display());
+        eprintln!(
+            "{shown}: cannot write the report into {}: {e}; report.md there, if any, is the previous run's",
+            out_dir.display()
+        );
         return super::EXIT_SCRIPT_ERROR;
     }
     let failed = g.report.failed();

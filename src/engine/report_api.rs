@@ -15,6 +15,7 @@ pub const DOCS: &[Doc] = &[
     Doc { name: "show", sig: "show(label: string, value)", summary: "a result line in the report and on the terminal; a Series shows as n, min, mean, max" },
     Doc { name: "show", sig: "show(label: string, value: float|Series, unit: string)", summary: "a result line, engineering-formatted with its unit: show(\"period\", 2.5e-7, \"s\") → 250 ns" },
     Doc { name: "show", sig: "show(label: string, value, unit: string, #{full: bool, digits: int})", summary: "full: true lists every element of a Series; digits: 1..17 significant digits (default 3)" },
+    Doc { name: "show", sig: "show(label: string, value, #{full: bool, digits: int})", summary: "the same options for a value without a unit" },
     Doc { name: "table", sig: "table(data: map of Series/arrays | array of maps)", summary: "a Markdown table; columns of a map come in name order, rows of an array of maps are its elements" },
     Doc { name: "table", sig: "table(data, #{columns: [names], units: #{name: unit}, digits: int})", summary: "columns: which columns in which order; units: unit of each column, shown in its header (cells get SI prefixes); digits: significant digits (default 3)" },
     Doc { name: "plot", sig: "plot(#{title, x, y, kind, names, x_label, y_label, x_unit, y_unit, log_x, log_y, bins, labels, waterfall, total_label}) -> string", summary: "an SVG chart beside the report (fig-NN-<title>.svg), linked from it; kinds line (default), scatter, step, histogram (samples in x; bins), bar (labels + y; waterfall: true stacks them and adds a total); y may be an array of Series with names for the legend; units go in x_unit/y_unit (ticks get SI prefixes); returns the file name" },
@@ -112,6 +113,8 @@ pub fn register(engine: &mut Engine, shared: &Shared) {
     engine.register_fn("show", move |label: &str, v: Dynamic| -> R<()> { show(&s, label, &v, "", &Map::new()) });
     let s = shared.clone();
     engine.register_fn("show", move |label: &str, v: Dynamic, unit: &str| -> R<()> { show(&s, label, &v, unit, &Map::new()) });
+    let s = shared.clone();
+    engine.register_fn("show", move |label: &str, v: Dynamic, opts: Map| -> R<()> { show(&s, label, &v, "", &opts) });
     let s = shared.clone();
     engine.register_fn("show", move |label: &str, v: Dynamic, unit: &str, opts: Map| -> R<()> { show(&s, label, &v, unit, &opts) });
 

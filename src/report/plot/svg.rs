@@ -313,12 +313,15 @@ fn histogram(root: &Area, p: &Plot) -> Result<(), String> {
         .collect();
     let top = counts.iter().flatten().copied().max().unwrap_or(1).max(1) as f64;
     let xa = ticks::linear(lo, hi, 7, false, true);
-    let ya = ticks::linear(0.0, top * 1.08, 6, true, false);
+    let mut ya = ticks::linear(0.0, top * 1.08, 6, true, false);
+    if ya.ticks.len() > 1 && ya.ticks[1] - ya.ticks[0] < 1.0 {
+        // Counts are whole numbers: one tick per count when there are few.
+        ya.hi = ya.hi.ceil();
+        ya.ticks = (0..=ya.hi as i64).map(|k| k as f64).collect();
+        ya.minor.clear();
+    }
     let xf = |c: &f64| xa.label(*c, &p.x_unit);
-    let yf = |c: &f64| {
-        let t = ya.label(*c, "");
-        if t.contains('.') { String::new() } else { t }
-    };
+    let yf = |c: &f64| ya.label(*c, "");
     let y_desc = if p.y_label.is_empty() { "count".to_string() } else { p.y_label.clone() };
     let mut c = chart(root, p, &xa, &ya, &xf, &yf, &desc(&p.x_label, &p.x_unit), &y_desc)?;
     let alpha = if p.ys.len() > 1 { 0.45 } else { 0.75 };
