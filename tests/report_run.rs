@@ -280,3 +280,20 @@ fn provenance_lists_imported_project_modules_with_their_hash() {
     assert!(md.contains(&format!("- files read:\n  - `helpers.rhai` (SHA-256 `{sha}`)\n- overrides")), "{md}");
     assert!(!md.contains("stdlib/"), "built-in modules come with the tool version: {md}");
 }
+
+#[test]
+fn figures_of_an_earlier_run_are_removed_and_files_are_readable() {
+    let d = tempfile::tempdir().unwrap();
+    run(d.path(), SCRIPT, &[]);
+    std::fs::write(out_dir(d.path()).join("notes.txt"), "kept").unwrap();
+    let fewer = SCRIPT.replace("plot(#{title: \"Supply spread\"", "//plot(#{title: \"Supply spread\"");
+    assert_eq!(run(d.path(), &fewer, &[]).status.code(), Some(0));
+    let names: Vec<String> = files(&out_dir(d.path())).into_iter().map(|(n, _)| n).collect();
+    assert_eq!(names, ["fig-01-period-versus-c.svg", "fig-02-error-budget.svg", "notes.txt", "report.md", "results.json"]);
+    #[cfg(unix)]
+    {
+        use std::os::unix::fs::PermissionsExt;
+        let mode = std::fs::metadata(out_dir(d.path()).join("report.md")).unwrap().permissions().mode();
+        assert_eq!(mode & 0o777, 0o644);
+    }
+}

@@ -8,6 +8,9 @@ use crate::engine::{self, sandbox::Sandbox, script::run_source, session::{Sessio
 use crate::report;
 
 #[derive(Args, Debug, Clone)]
+#[command(after_help = "Each script writes OUT/<script-name>/report.md, results.json and its figures (fig-NN-<title>.svg).\n\
+Exit codes: 0 all scripts ran and every metric met its spec; 1 a script failed (its previous report is left as it was);\n\
+2 bad command line; 3 every script ran but a metric failed its spec.")]
 pub struct RunArgs {
     /// Script files (.rhai)
     #[arg(required = true)]
