@@ -26,7 +26,11 @@ fn sweep(kind: Kind) -> Plot {
 #[test]
 fn every_kind_renders_with_title_and_axis_text() {
     for kind in [Kind::Line, Kind::Scatter, Kind::Step] {
-        let t = texts(&svg::render(&sweep(kind)).unwrap());
+        let svg = svg::render(&sweep(kind)).unwrap();
+        let doc = roxmltree::Document::parse(&svg).unwrap();
+        let title = doc.root_element().children().find(|n| n.tag_name().name() == "title").and_then(|n| n.text());
+        assert_eq!(title, Some("Period vs C <demo & test>"));
+        let t = texts(&svg);
         for want in ["Period vs C <demo & test>", "timing capacitor (F)", "period (s)", "2p", "10p"] {
             assert!(t.iter().any(|s| s == want), "{kind:?}: no '{want}' in {t:?}");
         }

@@ -109,6 +109,8 @@ fn value_text(v: &Dynamic, unit: &str, full: bool, digits: usize) -> Result<Stri
 }
 
 pub fn register(engine: &mut Engine, shared: &Shared) {
+    // The plot font is registered when the engine starts; a failure shows at the first plot.
+    let _ = plot::font::ensure();
     let s = shared.clone();
     engine.register_fn("show", move |label: &str, v: Dynamic| -> R<()> { show(&s, label, &v, "", &Map::new()) });
     let s = shared.clone();

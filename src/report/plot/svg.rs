@@ -76,7 +76,17 @@ pub fn render(p: &Plot) -> Result<String, String> {
         }
         root.present().map_err(pe)?;
     }
+    // An SVG <title> names the figure for screen readers and as the tooltip in browsers.
+    if !p.title.is_empty()
+        && let Some(k) = out.find('>')
+    {
+        out.insert_str(k + 1, &format!("\n<title>{}</title>", xml_escape(&p.title)));
+    }
     Ok(out)
+}
+
+fn xml_escape(t: &str) -> String {
+    t.replace('&', "&amp;").replace('<', "&lt;").replace('>', "&gt;").replace('"', "&quot;")
 }
 
 /// Axis description with the unit: `period (s)`.
