@@ -126,7 +126,7 @@ fn markdown_structure() {
         "```text\ncharging with 1.00 µA\n```",
         "## Capacitor sweep",
         "| c (F) | t (s) |",
-        "![Period versus C](fig-01-period-versus-c.svg)",
+        "![Period versus C](fig-01-period-versus-c.svg)\n\n*Figure 1: Period versus C*\n",
         "## Budget",
         "![Error budget](fig-02-error-budget.svg)",
         "![Supply spread](fig-03-supply-spread.svg)",

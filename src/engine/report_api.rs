@@ -349,7 +349,7 @@ fn plot_fn(s: &Shared, m: &Map) -> R<String> {
     if g.echo {
         super::term::out(&format!("figure {n}: {} ({file})", if p.title.is_empty() { "untitled" } else { &p.title }));
     }
-    g.push(Item::Figure(Figure { file: file.clone(), title: p.title, svg }));
+    g.push(Item::Figure(Figure { number: n, file: file.clone(), title: p.title, svg }));
     Ok(file)
 }
 

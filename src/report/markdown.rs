@@ -53,7 +53,15 @@ pub fn render(r: &Report, prov: &Provenance) -> String {
                     s.push_str(&format!("{fence}text\n{all}\n{fence}\n"));
                 }
                 Group::Block(Item::Table(t)) => s.push_str(&t.markdown()),
-                Group::Block(Item::Figure(f)) => s.push_str(&format!("![{}]({})\n", escape(&f.title), f.file)),
+                Group::Block(Item::Figure(f)) => {
+                    let alt = if f.title.is_empty() { format!("Figure {}", f.number) } else { escape(&f.title) };
+                    s.push_str(&format!("![{alt}]({})\n\n", f.file));
+                    if f.title.is_empty() {
+                        s.push_str(&format!("*Figure {}*\n", f.number));
+                    } else {
+                        s.push_str(&format!("*Figure {}: {}*\n", f.number, escape(&f.title)));
+                    }
+                }
                 Group::Block(_) => {}
             }
         }

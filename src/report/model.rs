@@ -20,6 +20,8 @@ pub enum Item {
 /// A rendered plot and the file it goes to, beside `report.md`.
 #[derive(Clone, Debug, PartialEq)]
 pub struct Figure {
+    /// 1-based number in the report, the NN of the file name.
+    pub number: usize,
     /// File name, `fig-NN-<slug>.svg`.
     pub file: String,
     pub title: String,
