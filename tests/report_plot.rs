@@ -112,3 +112,14 @@ fn bad_descriptions_name_the_key() {
     assert!(svg::render(&b).unwrap_err().contains("'labels' has 1 entries for 2 bars"));
     assert!(Kind::parse("pie").unwrap_err().contains("line, scatter, step, histogram, bar"));
 }
+
+#[test]
+fn histogram_stats_give_mean_and_sample_sigma() {
+    let mut h = Plot::new(Kind::Histogram);
+    // Samples 1, 2, 3: mean 2, sample standard deviation (n − 1) exactly 1 (by hand).
+    h.ys = vec![vec![1.0, 2.0, 3.0]];
+    h.x_unit = "V".into();
+    h.stats = true;
+    let t = texts(&svg::render(&h).unwrap());
+    assert!(t.iter().any(|s| s == "μ 2.00 V, σ 1.00 V"), "{t:?}");
+}

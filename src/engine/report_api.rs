@@ -18,7 +18,7 @@ pub const DOCS: &[Doc] = &[
     Doc { name: "show", sig: "show(label: string, value, #{full: bool, digits: int})", summary: "the same options for a value without a unit" },
     Doc { name: "table", sig: "table(data: map of Series/arrays | array of maps)", summary: "a Markdown table; columns of a map come in name order, rows of an array of maps are its elements" },
     Doc { name: "table", sig: "table(data, #{columns: [names], units: #{name: unit}, digits: int})", summary: "columns: which columns in which order; units: unit of each column, shown in its header (cells get SI prefixes); digits: significant digits (default 3)" },
-    Doc { name: "plot", sig: "plot(#{title, x, y, kind, names, x_label, y_label, x_unit, y_unit, log_x, log_y, bins, labels, waterfall, total_label}) -> string", summary: "an SVG chart beside the report (fig-NN-<title>.svg), linked from it; kinds line (default), scatter, step, histogram (samples in x; bins), bar (labels + y; waterfall: true stacks them and adds a total); y may be an array of Series with names for the legend; units go in x_unit/y_unit (ticks get SI prefixes); returns the file name" },
+    Doc { name: "plot", sig: "plot(#{title, x, y, kind, names, x_label, y_label, x_unit, y_unit, log_x, log_y, bins, stats, labels, waterfall, total_label}) -> string", summary: "an SVG chart beside the report (fig-NN-<title>.svg), linked from it; kinds line (default), scatter, step, histogram (samples in x; bins; stats: true marks the mean and gives mean and σ in the legend), bar (labels + y; waterfall: true stacks them and adds a total); y may be an array of Series with names for the legend; units go in x_unit/y_unit (ticks get SI prefixes); returns the file name" },
     Doc { name: "metric", sig: "metric(name: string, value: float, unit: string)", summary: "a named figure for results.json and the metrics history; name: lower-case a-z first, then a-z, 0-9, '_' or '.' (64 at most)" },
     Doc { name: "metric", sig: "metric(name: string, value: float, unit: string, #{min: float, max: float})", summary: "a metric with a spec window (ends included, either may be left out); a failed spec is marked in the report and the run exits with code 3" },
     Doc { name: "save_report", sig: "save_report(dir: string) -> string", summary: "write what the session showed (report.md, results.json, figures) into dir inside the output folder; returns the folder" },
@@ -275,7 +275,7 @@ fn strings(key: &str, v: &Dynamic) -> R<Vec<String>> {
 }
 
 const PLOT_KEYS: &[&str] = &[
-    "title", "kind", "x", "y", "names", "labels", "x_label", "y_label", "x_unit", "y_unit", "log_x", "log_y", "bins", "waterfall", "total_label",
+    "title", "kind", "x", "y", "names", "labels", "x_label", "y_label", "x_unit", "y_unit", "log_x", "log_y", "bins", "waterfall", "total_label", "stats",
 ];
 
 /// A [`Plot`] from the script's map; errors name the key.
@@ -294,6 +294,10 @@ pub fn plot_from_map(m: &Map) -> R<Plot> {
     p.log_x = opt_bool("plot", m, "log_x")?;
     p.log_y = opt_bool("plot", m, "log_y")?;
     p.waterfall = opt_bool("plot", m, "waterfall")?;
+    p.stats = opt_bool("plot", m, "stats")?;
+    if p.stats && kind != Kind::Histogram {
+        return err("plot: 'stats' is for histograms (kind: \"histogram\")");
+    }
     if m.contains_key("total_label") {
         p.total_label = opt_str("plot", m, "total_label")?;
     }

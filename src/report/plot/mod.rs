@@ -55,6 +55,8 @@ pub struct Plot {
     /// Bar: stack the bars end to end and add a total bar.
     pub waterfall: bool,
     pub total_label: String,
+    /// Histogram: mark each sample set's mean and give mean and standard deviation in the legend.
+    pub stats: bool,
 }
 
 impl Plot {
@@ -75,6 +77,7 @@ impl Plot {
             bins: None,
             waterfall: false,
             total_label: "total".into(),
+            stats: false,
         }
     }
 

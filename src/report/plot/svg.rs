@@ -183,7 +183,7 @@ fn axis_for(vals: (f64, f64), log: bool, target: usize, exact: bool) -> Axis {
 }
 
 fn legend<'a, 'b: 'a>(c: &mut Chart<'a, 'b>, p: &Plot, occupied: &[(f64, f64)]) -> Result<(), String> {
-    if p.names.is_empty() {
+    if p.names.is_empty() && !(p.stats && p.kind == Kind::Histogram) {
         return Ok(());
     }
     c.configure_series_labels()
@@ -342,14 +342,33 @@ fn histogram(root: &Area, p: &Plot) -> Result<(), String> {
             Rectangle::new([(x0, 0.0), (x0 + w, n as f64)], color.mix(alpha).filled())
         });
         let ann = c.draw_series(rects).map_err(pe)?;
-        if let Some(name) = p.names.get(k) {
-            ann.label(name.as_str()).legend(move |(x, y)| Rectangle::new([(x, y - 6), (x + 18, y + 6)], color.mix(alpha).filled()));
+        let stats = p.stats.then(|| {
+            let s: crate::num::Series = p.ys[k].iter().copied().filter(|v| v.is_finite()).collect();
+            (s.mean(), s.stdev())
+        });
+        let name = match (p.names.get(k), stats) {
+            (Some(n), Some((m, sd))) => Some(format!("{n}: μ {}, σ {}", fmt_stat(m, &p.x_unit), fmt_stat(sd, &p.x_unit))),
+            (None, Some((m, sd))) => Some(format!("μ {}, σ {}", fmt_stat(m, &p.x_unit), fmt_stat(sd, &p.x_unit))),
+            (n, None) => n.cloned(),
+        };
+        if let Some(name) = name {
+            ann.label(name).legend(move |(x, y)| Rectangle::new([(x, y - 6), (x + 18, y + 6)], color.mix(alpha).filled()));
         }
         let outlines = cs.iter().enumerate().filter(|(_, n)| **n > 0).map(|(i, &n)| {
             let x0 = lo + w * i as f64;
             Rectangle::new([(x0, 0.0), (x0 + w, n as f64)], color.stroke_width(1))
         });
         c.draw_series(outlines).map_err(pe)?;
+    }
+    if p.stats {
+        // The mean of each sample set as a vertical line in its colour.
+        for (k, y) in p.ys.iter().enumerate() {
+            let s: crate::num::Series = y.iter().copied().filter(|v| v.is_finite()).collect();
+            let m = s.mean();
+            let color = PALETTE[k % PALETTE.len()];
+            c.draw_series(std::iter::once(PathElement::new(vec![(m, ya.lo), (m, ya.hi)], color.stroke_width(2))))
+                .map_err(pe)?;
+        }
     }
     let mut occ = Vec::new();
     for cs in &counts {
@@ -422,6 +441,11 @@ fn bars(root: &Area, p: &Plot) -> Result<(), String> {
     }))
     .map_err(pe)?;
     Ok(())
+}
+
+/// A mean or standard deviation for a legend: 3 digits with the unit.
+fn fmt_stat(x: f64, unit: &str) -> String {
+    if x.is_finite() { crate::report::format::value(x, unit, 3) } else { "n/a".into() }
 }
 
 /// `t`, cut with an ellipsis to at most `max` pixels wide.
