@@ -90,7 +90,7 @@ fn mirror_compliance_and_output_resistance() {
     let (cs, cc, cw) = (s.compliance(1.8, tol).unwrap(), c.compliance(1.8, tol).unwrap(), w.compliance(1.8, tol).unwrap());
     assert!(cs < cw && cw < cc, "{cs} {cw} {cc}");
     let dev = Mos::from_process(&Process::demo180(), MosType::N, 4e-6, 2e-6).unwrap();
-    let (vg, vb) = c.bias();
+    let (vg, vb) = c.bias().unwrap();
     assert!(cc < vb && cc > vg - dev.vt(27.0), "{cc}");
     // Simple: Rout = ro of the output device at its bias.
     assert!(rel(s.rout(1.0), dev.ro(vg, 1.0, 27.0)) < 1e-3);
@@ -112,7 +112,7 @@ fn mirror_random_error_follows_pelgrom() {
     // (σI/I)² = (gm/Id)²σ²(ΔVT) + σ²(Δβ/β) (Pelgrom 1989) with the pair's A/√(WL).
     let s = mirror(MirrorKind::Simple, MosType::N);
     let dev = Mos::from_process(&Process::demo180(), MosType::N, 4e-6, 2e-6).unwrap();
-    let (vg, _) = s.bias();
+    let (vg, _) = s.bias().unwrap();
     let expect = current_sigma(dev.gm_id(vg, vg, 27.0), dev.sigma_vt(), dev.sigma_beta());
     assert!(rel(s.sigma_ratio(), expect) < 1e-12);
     let big = Mirror::from_process(&Process::demo180(), MirrorKind::Simple, MosType::N, 1e-6, 4.0, 4e-6, 2e-6, 0.1).unwrap();

@@ -212,3 +212,17 @@ fn bad_sizes_are_clear_errors() {
     assert!(Mos::from_process(&p, MosType::N, f64::NAN, 1e-6).is_err());
     assert!(Mos::from_process(&p, MosType::N, 1e-6, f64::INFINITY).is_err());
 }
+
+#[test]
+fn mismatch_sample_shifts_threshold_and_current_factor() {
+    // A threshold shift ΔVT is a gate-voltage shift; Δβ/β scales the current (Pelgrom 1989).
+    let m = nmos(2e-6, 0.5e-6);
+    let s = m.with_mismatch(3e-3, 0.02).unwrap();
+    for vgs in [0.2, 0.5, 1.2] {
+        let expect = 1.02 * m.id(vgs - 3e-3, 0.9, 27.0);
+        assert!(rel(s.id(vgs, 0.9, 27.0), expect) < 1e-12);
+    }
+    assert!(m.with_mismatch(1.0, 0.0).unwrap_err().contains("dvt"));
+    assert!(m.with_mismatch(0.0, -1.0).unwrap_err().contains("dbeta"));
+    assert!(m.with_mismatch(f64::NAN, 0.0).is_err());
+}

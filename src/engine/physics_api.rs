@@ -70,7 +70,7 @@ pub const DOCS: &[Doc] = &[
     d!("ro", "m.ro(vgs: V|Series, vds: V, temp: °C) -> Ω", "output resistance 1/gds"),
     d!("gm_id", "m.gm_id(vgs: V|Series, vds: V, temp: °C) -> 1/V", "transconductance efficiency gm/Id"),
     d!("ic", "m.ic(vgs: V|Series, temp: °C) -> float", "inversion coefficient Id/I_spec in saturation (< 0.1 weak, > 10 strong)"),
-    d!("vdsat", "m.vdsat(vgs: V|Series, temp: °C) -> V", "saturation voltage 2U_T√(IC+1/4)+3U_T (EKV)"),
+    d!("vdsat", "m.vdsat(vgs: V|Series, temp: °C) -> V", "saturation voltage 2U_T√(IC+1/4)+3U_T (EKV-based, Binkley 2008)"),
     d!("vgs_for", "m.vgs_for(id: A|Series, vds: V, temp: °C) -> V", "gate-source voltage that gives the drain current id"),
     d!("ron", "m.ron(vgs: V|Series, temp: °C) -> Ω", "triode on-resistance at Vds = 0, source at bulk"),
     d!("vt", "m.vt(temp: °C) -> V", "threshold voltage (magnitude) at temp"),
@@ -78,6 +78,7 @@ pub const DOCS: &[Doc] = &[
     d!("i_spec", "m.i_spec(temp: °C) -> A", "EKV specific current 2nβU_T²"),
     d!("caps", "m.caps(vgs: V, vds: V, temp: °C) -> map", "gate capacitances #{cgs, cgd, cgb, total} in F (Meyer, smoothed across regions, with overlaps)"),
     d!("cj", "m.cj(v_reverse: V|Series) -> F", "capacitance of one source/drain diffusion to bulk (area + sidewall, Sze law)"),
+    d!("with_mismatch", "m.with_mismatch(dvt: V, dbeta) -> Mos", "the device with a mismatch sample: threshold magnitude + dvt, current factor × (1 + dbeta)"),
     d!("sigma_vt", "m.sigma_vt() -> V", "σ(ΔVT) of a pair of these devices (Pelgrom)"),
     d!("sigma_beta", "m.sigma_beta() -> float", "σ(Δβ/β) of a pair of these devices (Pelgrom)"),
     d!("w", "m.w() -> m", "drawn width"),
@@ -280,13 +281,11 @@ fn register_process(engine: &mut Engine, session: &Shared) {
     engine.register_fn("corners", |p: &mut Process| -> Array { p.corner_names().into_iter().map(Dynamic::from).collect() });
     engine.register_fn("corner", |p: &mut Process, name: &str| lift(p.at_corner(name).map_err(|e| format!("corner: {e}"))));
     engine.register_fn("with_vdd", |p: &mut Process, v: Dynamic| -> R<Process> {
-        let v = num(&v, "with_vdd: vdd")?;
-        if !(0.3..=20.0).contains(&v) {
-            return err(format!("with_vdd: vdd must be in 0.3..20 V, got {v}"));
-        }
-        Ok(Process { vdd: v, ..p.clone() })
+        lift(p.with_vdd(num(&v, "with_vdd: vdd")?).map_err(|e| format!("with_vdd: {e}")))
     });
-    engine.register_fn("with_temp", |p: &mut Process, t: Dynamic| -> R<Process> { Ok(Process { temp: temp(&t, "with_temp")?, ..p.clone() }) });
+    engine.register_fn("with_temp", |p: &mut Process, t: Dynamic| -> R<Process> {
+        lift(p.with_temp(num(&t, "with_temp: temp")?).map_err(|e| format!("with_temp: {e}")))
+    });
     for (name, kind) in [("nmos", MosType::N), ("pmos", MosType::P)] {
         engine.register_fn(name, move |p: &mut Process, w: Dynamic, l: Dynamic| -> R<Mos> {
             let (w, l) = (num(&w, &format!("{name}: w"))?, num(&l, &format!("{name}: l"))?);
@@ -411,6 +410,9 @@ fn register_mos(engine: &mut Engine) {
         Ok(out)
     });
     engine.register_fn("cj", |m: &mut Mos, vr: Dynamic| -> R<Dynamic> { each(&vr, "v_reverse", "m.cj", |v| Ok(m.cj_diffusion(v))) });
+    engine.register_fn("with_mismatch", |m: &mut Mos, dvt: Dynamic, db: Dynamic| -> R<Mos> {
+        lift(m.with_mismatch(num(&dvt, "m.with_mismatch: dvt")?, num(&db, "m.with_mismatch: dbeta")?))
+    });
     engine.register_fn("sigma_vt", |m: &mut Mos| m.sigma_vt());
     engine.register_fn("sigma_beta", |m: &mut Mos| m.sigma_beta());
     engine.register_fn("w", |m: &mut Mos| m.w);
@@ -468,8 +470,8 @@ fn register_mirror(engine: &mut Engine) {
     engine.register_fn("systematic_error", |m: &mut Mirror, v: Dynamic| -> R<Dynamic> {
         each(&v, "v_out", "mi.systematic_error", |x| finite(m.systematic_error(x), "mi.systematic_error"))
     });
-    engine.register_fn("compliance", |m: &mut Mirror| -> R<f64> { lift(m.compliance(headroom(m), 0.01)) });
-    engine.register_fn("compliance", |m: &mut Mirror, tol: Dynamic| -> R<f64> { lift(m.compliance(headroom(m), num(&tol, "mi.compliance: tol")?)) });
+    engine.register_fn("compliance", |m: &mut Mirror| -> R<f64> { lift(m.compliance(m.headroom(), 0.01)) });
+    engine.register_fn("compliance", |m: &mut Mirror, tol: Dynamic| -> R<f64> { lift(m.compliance(m.headroom(), num(&tol, "mi.compliance: tol")?)) });
     engine.register_fn("sigma_ratio", |m: &mut Mirror| m.sigma_ratio());
     engine.register_fn("pair_mismatch", |h: Mirror, l: Mirror, v: Dynamic| -> R<Map> {
         let f = "pair_mismatch";
@@ -485,12 +487,6 @@ fn register_mirror(engine: &mut Engine) {
         out.insert("sigma".into(), sig);
         Ok(out)
     });
-}
-
-/// Headroom over which a mirror's compliance is searched: its supply, or 4× the explicit
-/// compliance voltage of a behavioural mirror.
-fn headroom(m: &Mirror) -> f64 {
-    if m.vdd.is_finite() { m.vdd } else { 4.0 * m.compliance(1e3, 0.01).unwrap_or(1.0).min(250.0) }
 }
 
 fn register_comparator(engine: &mut Engine) {
