@@ -211,6 +211,15 @@ fn bad_sizes_are_clear_errors() {
     assert!(e.contains("pmos") && e.contains("l must be in"), "{e}");
     assert!(Mos::from_process(&p, MosType::N, f64::NAN, 1e-6).is_err());
     assert!(Mos::from_process(&p, MosType::N, 1e-6, f64::INFINITY).is_err());
+    // Explicit parameters are held to the same ranges as a process file.
+    let mut bad = p.nmos.clone();
+    bad.n = 0.5;
+    let e = Mos::new(MosType::N, bad, 1e-6, 1e-6, 27.0).unwrap_err();
+    assert!(e.contains("nmos") && e.contains("n = 0.5 is out of range; allowed 1..3"), "{e}");
+    let mut bad = p.pmos.clone();
+    bad.kp = f64::NAN;
+    assert!(Mos::new(MosType::P, bad, 1e-6, 1e-6, 27.0).unwrap_err().contains("kp"));
+    assert!(Mos::new(MosType::N, p.nmos.clone(), 1e-6, 1e-6, 1e6).unwrap_err().contains("tnom"));
 }
 
 #[test]

@@ -53,10 +53,10 @@ pub const DOCS: &[Doc] = &[
     d!("mos_switch", "p.mos_switch(\"tg\", w_n: m, w_p: m, l: m) -> Switch", "a transmission gate of an NMOS of w_n and a PMOS of w_p"),
     d!("mos_switch", "mos_switch(#{ron: Ω, c_node: F, q_ch: C, c_ov: F, vdd: V}) -> Switch", "a switch from explicit numbers (c_node, q_ch, c_ov default 0; vdd 1.8)"),
     d!("mirror", "p.mirror(#{kind, type, i_ref: A, ratio, w: m, l: m, margin: V}) -> Mirror", "a current mirror: kind \"simple\"|\"cascode\"|\"wide-swing\", type \"n\" (sink) or \"p\" (source); ratio 1, margin 0.1 V by default"),
-    d!("mirror", "mirror(#{i_out: A, rout: Ω, v_compliance: V, sigma}) -> Mirror", "a behavioural mirror from explicit numbers (sigma: σ of the ratio, default 0)"),
+    d!("mirror", "mirror(#{i_out: A, rout: Ω, v_compliance: V, sigma, type, vdd: V}) -> Mirror", "a behavioural mirror from explicit numbers (sigma: σ of the ratio, default 0); type \"p\" with vdd for a high-side source"),
     d!("comparator", "p.comparator(#{type, w: m, l: m, i_tail: A, c_load: F, tail_w: m, tail_l: m, v_cm: V, v_swing: V, t0: s, offset: V, hyst: V}) -> Comparator", "a comparator from an input pair of the process (type \"n\"; tail 2u/2u; v_cm, v_swing vdd/2; t0, offset, hyst 0 by default)"),
     d!("comparator", "comparator(#{a0, gbw: Hz, slew: V/s, v_swing: V, t0: s, offset: V, sigma_offset: V, c_in: F, hyst: V}) -> Comparator", "a behavioural comparator from explicit numbers (a0, gbw, slew, v_swing required)"),
-    d!("pair_tradeoff", "p.pair_tradeoff(#{comparator keys…, w_over_l, areas: Series (m²)}) -> map", "offset σ (V) and input capacitance (F, at v_cm) versus input-pair gate area: #{area, offset, cap} of Series"),
+    d!("pair_tradeoff", "p.pair_tradeoff(#{comparator keys except w and l…, w_over_l, areas: Series (m²)}) -> map", "offset σ (V) and input capacitance (F, at v_cm) versus input-pair gate area at a fixed W/L (w_over_l, default 4): #{area, offset, cap} of Series"),
     d!("resistor", "p.resistor(layer: string, w: m, l: m) -> Resistor", "a resistor of a process layer, R0 = Rsh·L/W"),
     d!("resistor", "resistor(#{r: Ω, tc1: 1/K, tc2: 1/K², vc: 1/V, tnom: °C}) -> Resistor", "a resistor from explicit numbers (coefficients 0, tnom 27 °C by default)"),
     d!("capacitor", "p.capacitor(kind: string, w: m, l: m) -> Capacitor", "a capacitor of a process type (e.g. \"mim\"), C0 = Ca·WL + Cp·2(W+L)"),
@@ -207,12 +207,14 @@ impl<'a> Opts<'a> {
     }
 }
 
-fn pair_design(o: &mut Opts, p: &Process) -> R<PairDesign> {
+/// A comparator design from an option map; `sized` false when the caller sets W and L itself.
+fn pair_design(o: &mut Opts, p: &Process, sized: bool) -> R<PairDesign> {
     let kind = lift(MosType::parse(&o.text("type", "n")?).map_err(|e| format!("{}: key 'type': {e}", o.f)))?;
+    let (w, l) = if sized { (o.req("w")?, o.req("l")?) } else { (1e-6, 1e-6) };
     Ok(PairDesign {
         kind,
-        w: o.req("w")?,
-        l: o.req("l")?,
+        w,
+        l,
         i_tail: o.req("i_tail")?,
         c_load: o.req("c_load")?,
         tail_w: o.or("tail_w", 2e-6)?,
@@ -318,13 +320,13 @@ fn register_process(engine: &mut Engine, session: &Shared) {
     });
     engine.register_fn("comparator", |p: &mut Process, m: Map| -> R<Comparator> {
         let mut o = Opts::new(&m, "comparator");
-        let d = pair_design(&mut o, p)?;
+        let d = pair_design(&mut o, p, true)?;
         o.finish()?;
         lift(Comparator::from_pair(p, &d))
     });
     engine.register_fn("pair_tradeoff", |p: &mut Process, m: Map| -> R<Map> {
         let mut o = Opts::new(&m, "pair_tradeoff");
-        let d = pair_design(&mut o, p)?;
+        let d = pair_design(&mut o, p, false)?;
         let ratio = o.or("w_over_l", 4.0)?;
         let areas = match o.get("areas") {
             Some(v) => series_of(v, "pair_tradeoff: key 'areas'")?,
@@ -462,8 +464,16 @@ fn register_mirror(engine: &mut Engine) {
     engine.register_fn("mirror", |m: Map| -> R<Mirror> {
         let mut o = Opts::new(&m, "mirror");
         let (i, r, vc, s) = (o.req("i_out")?, o.req("rout")?, o.req("v_compliance")?, o.or("sigma", 0.0)?);
+        let ty = lift(MosType::parse(&o.text("type", "n")?).map_err(|e| format!("mirror: key 'type': {e}")))?;
+        let vdd = o.get("vdd").cloned();
         o.finish()?;
-        lift(Mirror::explicit(i, r, vc, s))
+        let m = lift(Mirror::explicit(i, r, vc, s))?;
+        match (ty, vdd) {
+            (MosType::N, None) => Ok(m),
+            (MosType::N, Some(_)) => err("mirror: key 'vdd' is for a sourcing mirror (type \"p\")"),
+            (MosType::P, None) => err("mirror: a sourcing mirror (type \"p\") needs key 'vdd'"),
+            (MosType::P, Some(v)) => lift(m.sourcing(num(&v, "mirror: key 'vdd'")?)),
+        }
     });
     engine.register_fn("i_out", |m: &mut Mirror, v: Dynamic| -> R<Dynamic> { each(&v, "v_out", "mi.i_out", |x| finite(m.i_out(x), "mi.i_out")) });
     engine.register_fn("rout", |m: &mut Mirror, v: Dynamic| -> R<Dynamic> { each(&v, "v_out", "mi.rout", |x| finite(m.rout(x), "mi.rout")) });

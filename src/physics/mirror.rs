@@ -77,6 +77,18 @@ impl Mirror {
         })
     }
 
+    /// The same behavioural mirror as a high-side source from a supply vdd (V): its output
+    /// headroom is then vdd − v_out.
+    pub fn sourcing(&self, vdd: f64) -> Result<Mirror, String> {
+        if !matches!(self.model, Model::Explicit { .. }) {
+            return Err("mirror: only a behavioural mirror can be turned into a source; use type \"p\" for a device mirror".into());
+        }
+        if !(vdd.is_finite() && vdd > 0.0) {
+            return Err(format!("mirror: vdd must be > 0 V, got {vdd}"));
+        }
+        Ok(Mirror { polarity: MosType::P, vdd, ..self.clone() })
+    }
+
     /// A mirror of the process: unit device W/L (cascodes the same), output ratio × wider,
     /// input current i_ref; the wide-swing cascode biases the bottom pair `margin` volts
     /// above its saturation voltage. At the process's (corner) supply and temperature.

@@ -63,6 +63,8 @@ impl Mos {
     /// A device from explicit parameters; W and L are checked against the parameters' minima.
     pub fn new(kind: MosType, p: MosParams, w: f64, l: f64, tnom: f64) -> Result<Mos, String> {
         let name = kind.name();
+        p.check().map_err(|e| format!("{name}: {e}"))?;
+        super::constants::check_temp(tnom).map_err(|e| format!("{name}: tnom: {e}"))?;
         if !(w.is_finite() && w >= p.wmin && w <= MAX_DIM) {
             return Err(format!("{name}: w must be in {}..{MAX_DIM} m, got {w}", p.wmin));
         }
