@@ -175,6 +175,31 @@ fn temperature_moves_current_both_ways() {
     assert!(m.id(0.4, 0.9, 125.0) > m.id(0.4, 0.9, -40.0));
     assert!(m.id(1.8, 0.9, 125.0) < m.id(1.8, 0.9, -40.0));
     assert!((m.vt(125.0) - m.vt(27.0) - 98.0 * m.p.tc_vth).abs() < 1e-12);
+    // Smooth and monotonic over −55…150 °C in 0.1 °C steps, at both ends of the bias range.
+    let (mut lo, mut hi) = (0.0, f64::INFINITY);
+    for k in 0..=2050 {
+        let t = -55.0 + 0.1 * k as f64;
+        let (a, b) = (m.id(0.3, 0.9, t), m.id(1.8, 0.9, t));
+        assert!(a.is_finite() && a > lo && b.is_finite() && b < hi, "at {t} °C");
+        lo = a;
+        hi = b;
+    }
+}
+
+#[test]
+fn gm_over_id_follows_the_ekv_universal_curve() {
+    // Enz, Krummenacher, Vittoz 1995: in saturation gm·n·U_T/Id = (1 − e^{−√IC})/√IC.
+    let m = nmos(4e-6, 1e-6);
+    let t = 27.0;
+    let nut = m.p.n * thermal_voltage(t);
+    for ic in [0.01, 0.1, 1.0, 10.0, 100.0] {
+        let sq = f64::sqrt(ic);
+        // Vgs for this IC: IC = F((Vgs − VT)/(nU_T)), F⁻¹(IC) = 2·ln(e^{√IC} − 1).
+        let vgs = m.vt(t) + nut * 2.0 * sq.exp_m1().ln();
+        assert!((m.ic(vgs, t) / ic - 1.0).abs() < 1e-12);
+        let got = m.gm_id(vgs, 1.8, t) * nut;
+        assert!(rel(got, (1.0 - (-sq).exp()) / sq) < 1e-6, "IC {ic}: {got}");
+    }
 }
 
 #[test]
