@@ -270,3 +270,13 @@ fn comparator_bad_parameters() {
     assert!(e(PairDesign { v_cm: 3.0, ..design() }).contains("v_cm"));
     assert!(e(PairDesign { w: 1e-9, ..design() }).contains("w must be in"));
 }
+
+#[test]
+fn comparator_extreme_inputs_stay_finite() {
+    let c = Comparator::new(spec()).unwrap();
+    let s = spec();
+    assert!(rel(c.delay(f64::INFINITY), s.t0 + s.v_swing / s.slew) < 1e-12);
+    assert!(rel(c.delay_ramp(f64::INFINITY), s.t0 + s.v_swing / s.slew) < 1e-12);
+    assert!(c.delay(f64::NAN).is_infinite() && c.delay_ramp(f64::NAN).is_infinite());
+    assert!(c.delay_ramp(1e-30).is_finite());
+}

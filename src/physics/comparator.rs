@@ -105,7 +105,9 @@ impl Comparator {
 
     /// A comparator built from an input pair of the process: gm at Id = I_tail/2, gain
     /// A0 = gm·(ro_pair ∥ ro_load) with ro_load = ro_pair, GBW = gm/(2π·C_load),
-    /// slew = I_tail/C_load (Razavi ch. 5 and 9; common practice), offset σ from Pelgrom.
+    /// slew = I_tail/C_load (Razavi ch. 5 and 9; common practice), offset σ from Pelgrom for the
+    /// input pair only (the load mirror's share, scaled by gm_load/gm_pair, is not included).
+    /// The diode load is the complementary device of the pair's W/L.
     pub fn from_pair(pr: &Process, d: &PairDesign) -> Result<Comparator, String> {
         let temp = pr.temp;
         let vdd = pr.vdd;
@@ -255,6 +257,10 @@ pub fn ramp_delay(a0: f64, tau: f64, slew: f64, dv: f64, slope: f64) -> f64 {
         return f64::INFINITY;
     }
     let k = a0 * slope;
+    if !k.is_finite() {
+        // An instant step of unbounded size: slewing from the start.
+        return dv / slew;
+    }
     let lin = |t: f64| k * (t - tau * (-(-t / tau).exp_m1()));
     // Time the linear rate reaches the slew rate (never when A0·s ≤ SR).
     let t_s = if k > slew { -tau * (-slew / k).ln_1p() } else { f64::INFINITY };
@@ -264,7 +270,10 @@ pub fn ramp_delay(a0: f64, tau: f64, slew: f64, dv: f64, slope: f64) -> f64 {
     }
     // Linear phase: lin(t) is increasing and convex; bracket the crossing.
     let mut hi = (2.0 * dv / k * tau).sqrt().max(dv / k);
-    while lin(hi) < dv {
+    for _ in 0..2000 {
+        if lin(hi) >= dv {
+            break;
+        }
         hi *= 2.0;
     }
     brent(|t| lin(t) - dv, 0.0, hi, hi * 1e-13, 300).unwrap_or(hi)
