@@ -99,6 +99,15 @@ fn mirror_compliance_and_output_resistance() {
     let estimate = dev.p.n * gm_c / gds_c * dev.ro(vg, vg, 27.0);
     assert!(rel(c.rout(1.2), estimate) < 0.3, "{} vs {estimate}", c.rout(1.2));
     assert!(w.rout(1.2) > 100.0 * s.rout(1.2));
+    // Rout compliance: the cascode keeps its high Rout only above about Vgs + Vdsat
+    // (= vb − VT with the bias of this mirror), the wide-swing one down to about 2·Vdsat + margin.
+    let rc = c.compliance_rout(1.8, 0.5).unwrap();
+    let rw = w.compliance_rout(1.8, 0.5).unwrap();
+    let vdsat = dev.vdsat(vg, 27.0);
+    assert!(rw < rc, "{rw} {rc}");
+    assert!(rc > vg && rc < vb, "{rc}");
+    assert!(rw > 2.0 * vdsat && rw < 2.0 * vdsat + 0.1 + 0.15, "{rw} vs vdsat {vdsat}");
+    assert!(c.compliance_rout(1.8, 1.5).unwrap_err().contains("frac"));
     // Systematic error of the simple mirror: (1 + λVout)/(1 + λVgs) − 1 (Razavi ch. 5).
     let lam = dev.lambda();
     assert!(s.systematic_error(vg).abs() < 1e-9);

@@ -97,6 +97,7 @@ pub const DOCS: &[Doc] = &[
     d!("rout", "mi.rout(v_out: V|Series) -> Ω", "output resistance at v_out"),
     d!("compliance", "mi.compliance() -> V", "lowest headroom from the mirror's rail with the current within 1 % of its saturation line"),
     d!("compliance", "mi.compliance(tol) -> V", "the same within a fraction tol"),
+    d!("compliance_rout", "mi.compliance_rout(frac) -> V", "lowest headroom above which Rout stays at least frac (0..1) of its value at full headroom"),
     d!("systematic_error", "mi.systematic_error(v_out: V|Series) -> float", "Iout/(ratio·Iref) − 1 at v_out"),
     d!("sigma_ratio", "mi.sigma_ratio() -> float", "σ of the current ratio from Pelgrom mismatch"),
     d!("pair_mismatch", "pair_mismatch(high: Mirror, low: Mirror, v_node: V|Series) -> map", "charge (PMOS) versus discharge (NMOS) current: #{systematic, sigma} as fractions of their mean"),
@@ -482,6 +483,9 @@ fn register_mirror(engine: &mut Engine) {
     });
     engine.register_fn("compliance", |m: &mut Mirror| -> R<f64> { lift(m.compliance(m.headroom(), 0.01)) });
     engine.register_fn("compliance", |m: &mut Mirror, tol: Dynamic| -> R<f64> { lift(m.compliance(m.headroom(), num(&tol, "mi.compliance: tol")?)) });
+    engine.register_fn("compliance_rout", |m: &mut Mirror, frac: Dynamic| -> R<f64> {
+        lift(m.compliance_rout(m.headroom(), num(&frac, "mi.compliance_rout: frac")?))
+    });
     engine.register_fn("sigma_ratio", |m: &mut Mirror| m.sigma_ratio());
     engine.register_fn("pair_mismatch", |h: Mirror, l: Mirror, v: Dynamic| -> R<Map> {
         let f = "pair_mismatch";

@@ -182,7 +182,7 @@ impl Mirror {
     }
 
     /// Output resistance at v_out: 1/(dIout/dVout), central difference of `i_out` over ±1 mV
-    /// (common practice); analytic rout for explicit mirrors above compliance, Ω.
+    /// (common practice), Ω.
     pub fn rout(&self, v_out: f64) -> f64 {
         let h = 1e-3;
         let g = (self.i_out(v_out + h) - self.i_out(v_out - h)) / (2.0 * h);
@@ -208,6 +208,34 @@ impl Mirror {
         let g = (at(headroom_max) - at(headroom_max - d)) / d;
         let f = |h: f64| at(h) - (1.0 - tol) * (i_top - (headroom_max - h) * g);
         brent(f, 1e-6, headroom_max, 1e-7, 200).map_err(|e| format!("mirror.compliance: {e}"))
+    }
+
+    /// Output-resistance compliance: the lowest headroom (V from the mirror's rail) above which
+    /// Rout stays at least `frac` of its value at `headroom_max` (a cascode's Rout collapses
+    /// below Vgs + Vdsat, Razavi ch. 5); scanned downward in 5 mV steps, then refined by Brent, V.
+    pub fn compliance_rout(&self, headroom_max: f64, frac: f64) -> Result<f64, String> {
+        if !(headroom_max.is_finite() && headroom_max > 0.0) {
+            return Err(format!("mirror.compliance_rout: headroom must be > 0 V, got {headroom_max}"));
+        }
+        if !(frac.is_finite() && frac > 0.0 && frac < 1.0) {
+            return Err(format!("mirror.compliance_rout: frac must be in 0..1 (exclusive), got {frac}"));
+        }
+        let r = |h: f64| match self.polarity {
+            MosType::N => self.rout(h),
+            MosType::P => self.rout(self.vdd - h),
+        };
+        let target = frac * r(headroom_max - 2e-3);
+        let f = |h: f64| (r(h) / target).ln();
+        let step = 5e-3;
+        let mut hi = headroom_max - 2e-3;
+        while hi - step > 2e-3 {
+            let lo = hi - step;
+            if f(lo) < 0.0 {
+                return brent(f, lo, hi, 1e-6, 200).map_err(|e| format!("mirror.compliance_rout: {e}"));
+            }
+            hi = lo;
+        }
+        Ok(hi)
     }
 
     /// Systematic error Iout/(ratio·Iref) − 1 at v_out (from the Vds difference between input
