@@ -105,7 +105,8 @@ impl Comparator {
 
     /// A comparator built from an input pair of the process: gm at Id = I_tail/2, gain
     /// A0 = gm·(ro_pair ∥ ro_load) with ro_load = ro_pair, GBW = gm/(2π·C_load),
-    /// slew = I_tail/C_load (Razavi ch. 5 and 9; common practice), offset σ from Pelgrom for the
+    /// slew = I_tail/C_load, all at the bias the tail actually delivers at v_cm (an error when it
+    /// delivers less than half; Razavi ch. 5 and 9; common practice), offset σ from Pelgrom for the
     /// input pair only (the load mirror's share, scaled by gm_load/gm_pair, is not included).
     /// The diode load is the complementary device of the pair's W/L.
     pub fn from_pair(pr: &Process, d: &PairDesign) -> Result<Comparator, String> {
@@ -137,13 +138,24 @@ impl Comparator {
         let stage = PairStage { pair: pair.clone(), tail, v_drain, vdd, temp, a_drain: 1.0 };
         let v_cm = stage.frame(d.v_cm);
         let vs = stage.tail_node(v_cm);
-        let (_, gm, _, gds) = pair.ids_derivs(v_cm, vs, v_drain, temp);
-        let gm_id = gm / id;
+        let (id_on, gm, _, gds) = pair.ids_derivs(v_cm, vs, v_drain, temp);
+        if !(id_on >= 0.5 * id) {
+            return Err(format!(
+                "comparator: at v_cm = {} V the tail current source has no headroom (each input device carries {:.3e} A of the intended {id:.3e} A); {}",
+                d.v_cm,
+                id_on,
+                match d.kind {
+                    MosType::N => "raise v_cm or use a PMOS pair (type \"p\")",
+                    MosType::P => "lower v_cm or use an NMOS pair (type \"n\")",
+                }
+            ));
+        }
+        let gm_id = gm / id_on;
         let a0 = gm / (2.0 * gds);
         let spec = ComparatorSpec {
             a0,
             gbw: gm / (2.0 * PI * d.c_load),
-            slew: d.i_tail / d.c_load,
+            slew: 2.0 * id_on / d.c_load,
             v_swing: d.v_swing,
             t0: d.t0,
             offset: d.offset,
