@@ -232,10 +232,18 @@ fn comparator_from_input_pair() {
     // to within its output resistance at this common mode.
     assert!(rel(c.spec.slew, 2e-6 / 50e-15) < 0.02);
     let pair = &c.stage.as_ref().unwrap().pair;
-    // Offset σ² = σ²(ΔVT) + (Id/gm)²σ²(Δβ/β) (Pelgrom 1989), gm/Id at the bias.
+    // Offset: each pair contributes σ² = σ²(ΔVT) + (Id/gm)²σ²(Δβ/β) (Pelgrom 1989); the load
+    // mirror's share is referred to the input by gm_load/gm_pair (Razavi ch. 14).
     let id = c.spec.slew * 50e-15 / 2.0;
-    let gm_id = 2.0 * std::f64::consts::PI * c.spec.gbw * 50e-15 / id;
-    assert!(rel(c.sigma_offset(), offset_sigma(gm_id, pair.sigma_vt(), pair.sigma_beta())) < 1e-9);
+    let gm = 2.0 * std::f64::consts::PI * c.spec.gbw * 50e-15;
+    let load = Mos::from_process(&p, MosType::P, 4e-6, 1e-6).unwrap();
+    let vl = load.diode_vgs(id, 27.0).unwrap();
+    let gm_l = load.gm(vl, vl, 27.0);
+    let s_pair = offset_sigma(gm / id, pair.sigma_vt(), pair.sigma_beta());
+    let s_load = offset_sigma(gm_l / id, load.sigma_vt(), load.sigma_beta());
+    let expect = (s_pair.powi(2) + (gm_l / gm * s_load).powi(2)).sqrt();
+    assert!(rel(c.sigma_offset(), expect) < 1e-6, "{} vs {expect}", c.sigma_offset());
+    assert!(c.sigma_offset() > s_pair);
     // Input capacitance versus common mode: finite, continuous, and lower where the tail has
     // no headroom (the pair leaves inversion) than at mid supply.
     let mut last = c.input_cap(0.0);

@@ -165,6 +165,12 @@ fn vgs_for_inverts_the_current() {
     assert!(m.vgs_for(-1e-6, 0.9, 27.0).unwrap_err().contains("id"));
     assert!(m.vgs_for(1e-6, 0.0, 27.0).unwrap_err().contains("vds must be > 0"));
     assert!(m.vgs_for(f64::NAN, 0.9, 27.0).is_err());
+    for id in [1e-10, 1e-6, 1e-4] {
+        let v = m.diode_vgs(id, 27.0).unwrap();
+        assert!(rel(m.id(v, v, 27.0), id) < 1e-9);
+    }
+    assert!(m.diode_vgs(0.0, 27.0).unwrap_err().contains("id must be > 0"));
+    assert!(m.diode_vgs(10.0, 27.0).unwrap_err().contains("20 V"));
 }
 
 #[test]

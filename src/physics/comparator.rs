@@ -106,9 +106,9 @@ impl Comparator {
     /// A comparator built from an input pair of the process: gm at Id = I_tail/2, gain
     /// A0 = gm·(ro_pair ∥ ro_load) with ro_load = ro_pair, GBW = gm/(2π·C_load),
     /// slew = I_tail/C_load, all at the bias the tail actually delivers at v_cm (an error when it
-    /// delivers less than half; Razavi ch. 5 and 9; common practice), offset σ from Pelgrom for the
-    /// input pair only (the load mirror's share, scaled by gm_load/gm_pair, is not included).
-    /// The diode load is the complementary device of the pair's W/L.
+    /// delivers less than half; Razavi ch. 5 and 9; common practice); offset σ from Pelgrom for
+    /// the input pair and its load mirror (`pair_offset_sigma`). The load mirror is the
+    /// complementary device of the pair's W/L, diode-connected on the input's side.
     pub fn from_pair(pr: &Process, d: &PairDesign) -> Result<Comparator, String> {
         let temp = pr.temp;
         let vdd = pr.vdd;
@@ -128,7 +128,7 @@ impl Comparator {
         };
         let load = Mos::from_process(pr, load_kind, d.w, d.l)?;
         let id = 0.5 * d.i_tail;
-        let v_load = load.vgs_for(id, 0.5 * vdd, temp)?;
+        let v_load = load.diode_vgs(id, temp)?;
         let v_drain = vdd - v_load;
         if v_drain <= 0.0 {
             return Err(format!("comparator: the diode load needs {v_load:.3} V, more than the supply {vdd} V"));
@@ -152,6 +152,14 @@ impl Comparator {
         }
         let gm_id = gm / id_on;
         let a0 = gm / (2.0 * gds);
+        // The load diode carries the current the pair really gets.
+        let v_l = load.diode_vgs(id_on, temp)?;
+        let (_, gm_load, _, _) = load.ids_derivs(v_l, 0.0, v_l, temp);
+        let sigma_offset = pair_offset_sigma(
+            mismatch::offset_sigma(gm_id, pair.sigma_vt(), pair.sigma_beta()),
+            mismatch::offset_sigma(gm_load / id_on, load.sigma_vt(), load.sigma_beta()),
+            gm_load / gm,
+        );
         let spec = ComparatorSpec {
             a0,
             gbw: gm / (2.0 * PI * d.c_load),
@@ -159,7 +167,7 @@ impl Comparator {
             v_swing: d.v_swing,
             t0: d.t0,
             offset: d.offset,
-            sigma_offset: mismatch::offset_sigma(gm_id, pair.sigma_vt(), pair.sigma_beta()),
+            sigma_offset,
             c_in: 0.0,
             hyst: d.hyst,
         };
@@ -238,6 +246,13 @@ impl PairStage {
         }
         brent(f, 0.0, hi, 1e-9, 200).unwrap_or(0.0)
     }
+}
+
+/// Input-referred offset σ of a differential pair with a current-mirror load: the pair's own σ
+/// and the load pair's σ referred to the input by gm_load/gm_pair, in quadrature
+/// (Razavi, Design of Analog CMOS ICs, ch. 14; Pelgrom 1989), V.
+pub fn pair_offset_sigma(sigma_pair: f64, sigma_load: f64, gm_ratio: f64) -> f64 {
+    (sigma_pair.powi(2) + (gm_ratio * sigma_load).powi(2)).sqrt()
 }
 
 /// Delay for an overdrive step of a single-pole amplifier (gain a0, time constant tau) whose

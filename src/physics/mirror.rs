@@ -118,9 +118,9 @@ impl Mirror {
         let c_in = m_in.clone();
         let c_out = m_out.clone();
         let (vg, vb) = match kind {
-            MirrorKind::Simple => (diode(&m_in, i_ref, temp)?, 0.0),
+            MirrorKind::Simple => (m_in.diode_vgs(i_ref, temp)?, 0.0),
             MirrorKind::Cascode => {
-                let vg = diode(&m_in, i_ref, temp)?;
+                let vg = m_in.diode_vgs(i_ref, temp)?;
                 // Input cascode diode stacked on the input diode: gate = drain, source at vg.
                 let vb = solve_gate(|v| c_in.ids(v, vg, v, temp), i_ref, vg)?;
                 (vg, vb)
@@ -280,11 +280,6 @@ impl Mirror {
             Model::Devices { .. } => self.vdd,
         }
     }
-}
-
-/// Gate voltage of a diode-connected device carrying `id`.
-fn diode(m: &Mos, id: f64, temp: f64) -> Result<f64, String> {
-    solve_gate(|v| m.id(v, v, temp), id, 0.0)
 }
 
 /// Smallest-bracket solve of current(v) = id for a monotonic current, v above `lo`.

@@ -219,6 +219,23 @@ impl Mos {
         crate::num::roots::brent(f, lo, hi, 1e-12, 200).map_err(|e| format!("{name}.vgs_for: {e}"))
     }
 
+    /// Gate voltage of the device diode-connected (Vds = Vgs) carrying `id` (Brent), V.
+    pub fn diode_vgs(&self, id: f64, temp_c: f64) -> Result<f64, String> {
+        let name = self.kind.name();
+        if !(id.is_finite() && id > 0.0) {
+            return Err(format!("{name}.diode_vgs: id must be > 0 A, got {id}"));
+        }
+        let f = |v: f64| self.id(v, v, temp_c) - id;
+        let mut hi = 0.5;
+        while f(hi) < 0.0 {
+            hi += 0.5;
+            if hi > 20.0 {
+                return Err(format!("{name}: {id} A needs more than 20 V of diode voltage"));
+            }
+        }
+        crate::num::roots::brent(f, 0.0, hi, 1e-12, 300).map_err(|e| format!("{name}.diode_vgs: {e}"))
+    }
+
     /// Small-signal on-resistance of the channel at Vds = 0, bulk-referred gate and channel
     /// voltages: 1/(∂Id/∂Vd) (EKV; 1/(β(Vgs − VT)) in strong inversion, Razavi ch. 2), Ω.
     pub fn ron_b(&self, vg: f64, v_ch: f64, temp_c: f64) -> f64 {
