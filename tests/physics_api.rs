@@ -88,13 +88,16 @@ fn objects_and_methods_from_a_script() {
         show("ramp", c.delay_ramp(1e6), "s");
         let th = c.thresholds(0.9);
         show("hyst", th.rising - th.falling, "V");
-        let tr = p.pair_tradeoff(#{w: 4u, l: 1u, i_tail: 2u, c_load: 50f, areas: span_log(1p, 100p, 3)});
+        let tr = p.pair_tradeoff(#{i_tail: 2u, c_load: 50f, areas: span_log(1p, 100p, 3)});
         show("offset", tr.offset, "V");
         show("r", p.resistor("rpoly", 1u, 20u).r(0.5, 125), "Ω");
         show("c", p.capacitor("mim", 10u, 10u).c(1.0, 27), "F");
         show("moscap", p.moscap("n", 10u, 10u).c(span(0, 1.8, 4), 27), "F");
         show("cj", junction_cap(1f, span(0, 1.8, 3), 0.8, 0.5), "F");
         show("pel", pelgrom(5n, 1u, 1u), "V");
+        let src = mirror(#{i_out: 1u, rout: 10M, v_compliance: 0.2, type: "p", vdd: 1.8});
+        // No headroom at 1.8 V; at 1.0 V: 1 µA + (0.8 − 0.2) V / 10 MΩ = 1.06 µA.
+        show("src", src.i_out(1.8) + src.i_out(1.0), "A");
     "#;
     let s = run(script).unwrap();
     let g = s.lock();
@@ -102,7 +105,8 @@ fn objects_and_methods_from_a_script() {
     assert!(shown.iter().any(|t| t.contains("\"vdd\"") && t.contains("1.60 V")), "{shown:?}");
     assert!(shown.iter().any(|t| t.contains("\"hyst\"") && t.contains("10.0 mV")), "{shown:?}");
     assert!(shown.iter().any(|t| t.contains("\"pel\"") && t.contains("5.00 mV")), "{shown:?}");
-    assert_eq!(shown.len(), 16);
+    assert!(shown.iter().any(|t| t.contains("\"src\"") && t.contains("1.06 µA")), "{shown:?}");
+    assert_eq!(shown.len(), 17);
 }
 
 #[test]
@@ -146,6 +150,9 @@ fn bad_arguments_name_the_parameter() {
         (r#"process("demo180").resistor("metal", 1u, 1u)"#, "no resistor layer 'metal'"),
         (r#"process("demo180").nmos(1u, 1u).id(series([0.1, 0.2]) / 0.0, 0.9, 27)"#, "vgs[0] must be finite"),
         (r#"thermal_voltage(-300)"#, "temp must be in"),
+        (r#"mirror(#{i_out: 1u, rout: 1M, v_compliance: 0.2, type: "p"})"#, "needs key 'vdd'"),
+        (r#"process("demo180").pair_tradeoff(#{w: 1u, i_tail: 1u, c_load: 1p, areas: [1p]})"#, "unknown key 'w'"),
+        (r#"process("demo180").nmos(1u, 1u).with_mismatch(2.0, 0)"#, "dvt must be in"),
         (r#"process("demo180").with_vdd(0)"#, "vdd must be in"),
     ];
     for (code, want) in cases {

@@ -90,7 +90,7 @@ fn mirror_compliance_and_output_resistance() {
     let (cs, cc, cw) = (s.compliance(1.8, tol).unwrap(), c.compliance(1.8, tol).unwrap(), w.compliance(1.8, tol).unwrap());
     assert!(cs < cw && cw < cc, "{cs} {cw} {cc}");
     let dev = Mos::from_process(&Process::demo180(), MosType::N, 4e-6, 2e-6).unwrap();
-    let (vg, vb) = c.bias();
+    let (vg, vb) = c.bias().unwrap();
     assert!(cc < vb && cc > vg - dev.vt(27.0), "{cc}");
     // Simple: Rout = ro of the output device at its bias.
     assert!(rel(s.rout(1.0), dev.ro(vg, 1.0, 27.0)) < 1e-3);
@@ -99,6 +99,15 @@ fn mirror_compliance_and_output_resistance() {
     let estimate = dev.p.n * gm_c / gds_c * dev.ro(vg, vg, 27.0);
     assert!(rel(c.rout(1.2), estimate) < 0.3, "{} vs {estimate}", c.rout(1.2));
     assert!(w.rout(1.2) > 100.0 * s.rout(1.2));
+    // Rout compliance: the cascode keeps its high Rout only above about Vgs + Vdsat
+    // (= vb − VT with the bias of this mirror), the wide-swing one down to about 2·Vdsat + margin.
+    let rc = c.compliance_rout(1.8, 0.5).unwrap();
+    let rw = w.compliance_rout(1.8, 0.5).unwrap();
+    let vdsat = dev.vdsat(vg, 27.0);
+    assert!(rw < rc, "{rw} {rc}");
+    assert!(rc > vg && rc < vb, "{rc}");
+    assert!(rw > 2.0 * vdsat && rw < 2.0 * vdsat + 0.1 + 0.15, "{rw} vs vdsat {vdsat}");
+    assert!(c.compliance_rout(1.8, 1.5).unwrap_err().contains("frac"));
     // Systematic error of the simple mirror: (1 + λVout)/(1 + λVgs) − 1 (Razavi ch. 5).
     let lam = dev.lambda();
     assert!(s.systematic_error(vg).abs() < 1e-9);
@@ -112,7 +121,7 @@ fn mirror_random_error_follows_pelgrom() {
     // (σI/I)² = (gm/Id)²σ²(ΔVT) + σ²(Δβ/β) (Pelgrom 1989) with the pair's A/√(WL).
     let s = mirror(MirrorKind::Simple, MosType::N);
     let dev = Mos::from_process(&Process::demo180(), MosType::N, 4e-6, 2e-6).unwrap();
-    let (vg, _) = s.bias();
+    let (vg, _) = s.bias().unwrap();
     let expect = current_sigma(dev.gm_id(vg, vg, 27.0), dev.sigma_vt(), dev.sigma_beta());
     assert!(rel(s.sigma_ratio(), expect) < 1e-12);
     let big = Mirror::from_process(&Process::demo180(), MirrorKind::Simple, MosType::N, 1e-6, 4.0, 4e-6, 2e-6, 0.1).unwrap();
@@ -219,12 +228,22 @@ fn design() -> PairDesign {
 fn comparator_from_input_pair() {
     let p = Process::demo180();
     let c = Comparator::from_pair(&p, &design()).unwrap();
-    // Slew = I_tail/C_load; GBW = gm/(2π·C_load) (Razavi ch. 9).
-    assert!(rel(c.spec.slew, 2e-6 / 50e-15) < 1e-12);
+    // Slew = I_tail/C_load; GBW = gm/(2π·C_load) (Razavi ch. 9); the tail delivers its current
+    // to within its output resistance at this common mode.
+    assert!(rel(c.spec.slew, 2e-6 / 50e-15) < 0.02);
     let pair = &c.stage.as_ref().unwrap().pair;
-    // Offset σ² = σ²(ΔVT) + (Id/gm)²σ²(Δβ/β) (Pelgrom 1989), gm/Id at the bias.
-    let gm_id = 2.0 * std::f64::consts::PI * c.spec.gbw * 50e-15 / 1e-6;
-    assert!(rel(c.sigma_offset(), offset_sigma(gm_id, pair.sigma_vt(), pair.sigma_beta())) < 1e-9);
+    // Offset: each pair contributes σ² = σ²(ΔVT) + (Id/gm)²σ²(Δβ/β) (Pelgrom 1989); the load
+    // mirror's share is referred to the input by gm_load/gm_pair (Razavi ch. 14).
+    let id = c.spec.slew * 50e-15 / 2.0;
+    let gm = 2.0 * std::f64::consts::PI * c.spec.gbw * 50e-15;
+    let load = Mos::from_process(&p, MosType::P, 4e-6, 1e-6).unwrap();
+    let vl = load.diode_vgs(id, 27.0).unwrap();
+    let gm_l = load.gm(vl, vl, 27.0);
+    let s_pair = offset_sigma(gm / id, pair.sigma_vt(), pair.sigma_beta());
+    let s_load = offset_sigma(gm_l / id, load.sigma_vt(), load.sigma_beta());
+    let expect = (s_pair.powi(2) + (gm_l / gm * s_load).powi(2)).sqrt();
+    assert!(rel(c.sigma_offset(), expect) < 1e-6, "{} vs {expect}", c.sigma_offset());
+    assert!(c.sigma_offset() > s_pair);
     // Input capacitance versus common mode: finite, continuous, and lower where the tail has
     // no headroom (the pair leaves inversion) than at mid supply.
     let mut last = c.input_cap(0.0);
@@ -268,5 +287,20 @@ fn comparator_bad_parameters() {
     assert!(e(PairDesign { i_tail: 0.0, ..design() }).contains("i_tail"));
     assert!(e(PairDesign { c_load: -1.0, ..design() }).contains("c_load"));
     assert!(e(PairDesign { v_cm: 3.0, ..design() }).contains("v_cm"));
+    // An NMOS pair at a common mode below its headroom: an error that says what to change.
+    let low = e(PairDesign { v_cm: 0.2, ..design() });
+    assert!(low.contains("no headroom") && low.contains("PMOS pair"), "{low}");
+    let high = e(PairDesign { kind: MosType::P, v_cm: 1.7, ..design() });
+    assert!(high.contains("no headroom") && high.contains("NMOS pair"), "{high}");
     assert!(e(PairDesign { w: 1e-9, ..design() }).contains("w must be in"));
+}
+
+#[test]
+fn comparator_extreme_inputs_stay_finite() {
+    let c = Comparator::new(spec()).unwrap();
+    let s = spec();
+    assert!(rel(c.delay(f64::INFINITY), s.t0 + s.v_swing / s.slew) < 1e-12);
+    assert!(rel(c.delay_ramp(f64::INFINITY), s.t0 + s.v_swing / s.slew) < 1e-12);
+    assert!(c.delay(f64::NAN).is_infinite() && c.delay_ramp(f64::NAN).is_infinite());
+    assert!(c.delay_ramp(1e-30).is_finite());
 }

@@ -165,6 +165,12 @@ fn vgs_for_inverts_the_current() {
     assert!(m.vgs_for(-1e-6, 0.9, 27.0).unwrap_err().contains("id"));
     assert!(m.vgs_for(1e-6, 0.0, 27.0).unwrap_err().contains("vds must be > 0"));
     assert!(m.vgs_for(f64::NAN, 0.9, 27.0).is_err());
+    for id in [1e-10, 1e-6, 1e-4] {
+        let v = m.diode_vgs(id, 27.0).unwrap();
+        assert!(rel(m.id(v, v, 27.0), id) < 1e-9);
+    }
+    assert!(m.diode_vgs(0.0, 27.0).unwrap_err().contains("id must be > 0"));
+    assert!(m.diode_vgs(10.0, 27.0).unwrap_err().contains("20 V"));
 }
 
 #[test]
@@ -175,6 +181,31 @@ fn temperature_moves_current_both_ways() {
     assert!(m.id(0.4, 0.9, 125.0) > m.id(0.4, 0.9, -40.0));
     assert!(m.id(1.8, 0.9, 125.0) < m.id(1.8, 0.9, -40.0));
     assert!((m.vt(125.0) - m.vt(27.0) - 98.0 * m.p.tc_vth).abs() < 1e-12);
+    // Smooth and monotonic over −55…150 °C in 0.1 °C steps, at both ends of the bias range.
+    let (mut lo, mut hi) = (0.0, f64::INFINITY);
+    for k in 0..=2050 {
+        let t = -55.0 + 0.1 * k as f64;
+        let (a, b) = (m.id(0.3, 0.9, t), m.id(1.8, 0.9, t));
+        assert!(a.is_finite() && a > lo && b.is_finite() && b < hi, "at {t} °C");
+        lo = a;
+        hi = b;
+    }
+}
+
+#[test]
+fn gm_over_id_follows_the_ekv_universal_curve() {
+    // Enz, Krummenacher, Vittoz 1995: in saturation gm·n·U_T/Id = (1 − e^{−√IC})/√IC.
+    let m = nmos(4e-6, 1e-6);
+    let t = 27.0;
+    let nut = m.p.n * thermal_voltage(t);
+    for ic in [0.01, 0.1, 1.0, 10.0, 100.0] {
+        let sq = f64::sqrt(ic);
+        // Vgs for this IC: IC = F((Vgs − VT)/(nU_T)), F⁻¹(IC) = 2·ln(e^{√IC} − 1).
+        let vgs = m.vt(t) + nut * 2.0 * sq.exp_m1().ln();
+        assert!((m.ic(vgs, t) / ic - 1.0).abs() < 1e-12);
+        let got = m.gm_id(vgs, 1.8, t) * nut;
+        assert!(rel(got, (1.0 - (-sq).exp()) / sq) < 1e-6, "IC {ic}: {got}");
+    }
 }
 
 #[test]
@@ -211,4 +242,27 @@ fn bad_sizes_are_clear_errors() {
     assert!(e.contains("pmos") && e.contains("l must be in"), "{e}");
     assert!(Mos::from_process(&p, MosType::N, f64::NAN, 1e-6).is_err());
     assert!(Mos::from_process(&p, MosType::N, 1e-6, f64::INFINITY).is_err());
+    // Explicit parameters are held to the same ranges as a process file.
+    let mut bad = p.nmos.clone();
+    bad.n = 0.5;
+    let e = Mos::new(MosType::N, bad, 1e-6, 1e-6, 27.0).unwrap_err();
+    assert!(e.contains("nmos") && e.contains("n = 0.5 is out of range; allowed 1..3"), "{e}");
+    let mut bad = p.pmos.clone();
+    bad.kp = f64::NAN;
+    assert!(Mos::new(MosType::P, bad, 1e-6, 1e-6, 27.0).unwrap_err().contains("kp"));
+    assert!(Mos::new(MosType::N, p.nmos.clone(), 1e-6, 1e-6, 1e6).unwrap_err().contains("tnom"));
+}
+
+#[test]
+fn mismatch_sample_shifts_threshold_and_current_factor() {
+    // A threshold shift ΔVT is a gate-voltage shift; Δβ/β scales the current (Pelgrom 1989).
+    let m = nmos(2e-6, 0.5e-6);
+    let s = m.with_mismatch(3e-3, 0.02).unwrap();
+    for vgs in [0.2, 0.5, 1.2] {
+        let expect = 1.02 * m.id(vgs - 3e-3, 0.9, 27.0);
+        assert!(rel(s.id(vgs, 0.9, 27.0), expect) < 1e-12);
+    }
+    assert!(m.with_mismatch(1.0, 0.0).unwrap_err().contains("dvt"));
+    assert!(m.with_mismatch(0.0, -1.0).unwrap_err().contains("dbeta"));
+    assert!(m.with_mismatch(f64::NAN, 0.0).is_err());
 }

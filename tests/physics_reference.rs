@@ -48,7 +48,7 @@ fn cascode_mirror_matches_scipy_solution() {
     // physics_reference.py: cascode of demo180 NMOS 4 µm/2 µm at 1 µA, internal node by brentq.
     let p = Process::demo180();
     let mi = Mirror::from_process(&p, MirrorKind::Cascode, MosType::N, 1e-6, 1.0, 4e-6, 2e-6, 0.0).unwrap();
-    let (vg, vb) = mi.bias();
+    let (vg, vb) = mi.bias().unwrap();
     assert!((vg - 0.4826166753081596).abs() < 1e-9 && (vb - 1.1338798093218607).abs() < 1e-9, "{vg} {vb}");
     for (v, i) in [(0.3, 9.943922728982453e-07), (0.6, 9.999516688993243e-07), (1.0, 9.999953295504563e-07), (1.8, 1.0000229148887246e-06)] {
         assert!(rel(mi.i_out(v), i) < 1e-8, "vout {v}: {} vs {i}", mi.i_out(v));
@@ -95,5 +95,33 @@ fn comparator_ramp_delay_matches_ode_solution() {
     let c = comparator();
     for (s, t) in [(1e4, 9.415547952990999e-07), (1e6, 7.722417524487625e-08), (1e8, 2.3137044610475758e-08)] {
         assert!(rel(c.delay_ramp(s), t) < 1e-6, "slope {s}: {} vs {t}", c.delay_ramp(s));
+    }
+}
+
+#[test]
+fn switch_on_resistance_matches_numpy() {
+    // physics_reference.py: 1/(∂Id/∂Vd) at Vd = Vs by central differences of the bulk-referred
+    // EKV current (NMOS 1 µm/0.18 µm, PMOS 2 µm/0.18 µm, VDD = 1.8 V, 27 °C); NaN marks a value
+    // too small to difference (the device is off there).
+    use tickwork::physics::switch::{Switch, SwitchKind};
+    let p = Process::demo180();
+    let n = Switch::from_process(&p, SwitchKind::N, 1e-6, 1e-6, 0.18e-6).unwrap();
+    let s = Switch::from_process(&p, SwitchKind::P, 2e-6, 2e-6, 0.18e-6).unwrap();
+    let tg = Switch::from_process(&p, SwitchKind::Tg, 1e-6, 2e-6, 0.18e-6).unwrap();
+    let rows = [
+        (0.0, 444.44444599408746, f64::NAN, 444.44444599408735),
+        (0.5, 888.939436683124, f64::NAN, 888.9393919037545),
+        (0.9, 4755.120519259173, 21418.675025097375, 3891.2346867913284),
+        (1.3, f64::NAN, 2074.0833308850315, 2074.0787563714853),
+        (1.8, f64::NAN, 974.0259857842113, 974.0259857842073),
+    ];
+    for (v, rn, rp, rt) in rows {
+        assert!(rel(tg.ron(v), rt) < 1e-6, "tg at {v}");
+        if rn.is_finite() {
+            assert!(rel(n.ron(v), rn) < 1e-6, "n at {v}");
+        }
+        if rp.is_finite() {
+            assert!(rel(s.ron(v), rp) < 1e-6, "p at {v}");
+        }
     }
 }

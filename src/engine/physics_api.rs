@@ -53,10 +53,10 @@ pub const DOCS: &[Doc] = &[
     d!("mos_switch", "p.mos_switch(\"tg\", w_n: m, w_p: m, l: m) -> Switch", "a transmission gate of an NMOS of w_n and a PMOS of w_p"),
     d!("mos_switch", "mos_switch(#{ron: Ω, c_node: F, q_ch: C, c_ov: F, vdd: V}) -> Switch", "a switch from explicit numbers (c_node, q_ch, c_ov default 0; vdd 1.8)"),
     d!("mirror", "p.mirror(#{kind, type, i_ref: A, ratio, w: m, l: m, margin: V}) -> Mirror", "a current mirror: kind \"simple\"|\"cascode\"|\"wide-swing\", type \"n\" (sink) or \"p\" (source); ratio 1, margin 0.1 V by default"),
-    d!("mirror", "mirror(#{i_out: A, rout: Ω, v_compliance: V, sigma}) -> Mirror", "a behavioural mirror from explicit numbers (sigma: σ of the ratio, default 0)"),
+    d!("mirror", "mirror(#{i_out: A, rout: Ω, v_compliance: V, sigma, type, vdd: V}) -> Mirror", "a behavioural mirror from explicit numbers (sigma: σ of the ratio, default 0); type \"p\" with vdd for a high-side source"),
     d!("comparator", "p.comparator(#{type, w: m, l: m, i_tail: A, c_load: F, tail_w: m, tail_l: m, v_cm: V, v_swing: V, t0: s, offset: V, hyst: V}) -> Comparator", "a comparator from an input pair of the process (type \"n\"; tail 2u/2u; v_cm, v_swing vdd/2; t0, offset, hyst 0 by default)"),
     d!("comparator", "comparator(#{a0, gbw: Hz, slew: V/s, v_swing: V, t0: s, offset: V, sigma_offset: V, c_in: F, hyst: V}) -> Comparator", "a behavioural comparator from explicit numbers (a0, gbw, slew, v_swing required)"),
-    d!("pair_tradeoff", "p.pair_tradeoff(#{comparator keys…, w_over_l, areas: Series (m²)}) -> map", "offset σ (V) and input capacitance (F, at v_cm) versus input-pair gate area: #{area, offset, cap} of Series"),
+    d!("pair_tradeoff", "p.pair_tradeoff(#{comparator keys except w and l…, w_over_l, areas: Series (m²)}) -> map", "offset σ (V) and input capacitance (F, at v_cm) versus input-pair gate area at a fixed W/L (w_over_l, default 4): #{area, offset, cap} of Series"),
     d!("resistor", "p.resistor(layer: string, w: m, l: m) -> Resistor", "a resistor of a process layer, R0 = Rsh·L/W"),
     d!("resistor", "resistor(#{r: Ω, tc1: 1/K, tc2: 1/K², vc: 1/V, tnom: °C}) -> Resistor", "a resistor from explicit numbers (coefficients 0, tnom 27 °C by default)"),
     d!("capacitor", "p.capacitor(kind: string, w: m, l: m) -> Capacitor", "a capacitor of a process type (e.g. \"mim\"), C0 = Ca·WL + Cp·2(W+L)"),
@@ -70,7 +70,7 @@ pub const DOCS: &[Doc] = &[
     d!("ro", "m.ro(vgs: V|Series, vds: V, temp: °C) -> Ω", "output resistance 1/gds"),
     d!("gm_id", "m.gm_id(vgs: V|Series, vds: V, temp: °C) -> 1/V", "transconductance efficiency gm/Id"),
     d!("ic", "m.ic(vgs: V|Series, temp: °C) -> float", "inversion coefficient Id/I_spec in saturation (< 0.1 weak, > 10 strong)"),
-    d!("vdsat", "m.vdsat(vgs: V|Series, temp: °C) -> V", "saturation voltage 2U_T√(IC+1/4)+3U_T (EKV)"),
+    d!("vdsat", "m.vdsat(vgs: V|Series, temp: °C) -> V", "saturation voltage 2U_T√(IC+1/4)+3U_T (EKV-based, Binkley 2008)"),
     d!("vgs_for", "m.vgs_for(id: A|Series, vds: V, temp: °C) -> V", "gate-source voltage that gives the drain current id"),
     d!("ron", "m.ron(vgs: V|Series, temp: °C) -> Ω", "triode on-resistance at Vds = 0, source at bulk"),
     d!("vt", "m.vt(temp: °C) -> V", "threshold voltage (magnitude) at temp"),
@@ -78,6 +78,7 @@ pub const DOCS: &[Doc] = &[
     d!("i_spec", "m.i_spec(temp: °C) -> A", "EKV specific current 2nβU_T²"),
     d!("caps", "m.caps(vgs: V, vds: V, temp: °C) -> map", "gate capacitances #{cgs, cgd, cgb, total} in F (Meyer, smoothed across regions, with overlaps)"),
     d!("cj", "m.cj(v_reverse: V|Series) -> F", "capacitance of one source/drain diffusion to bulk (area + sidewall, Sze law)"),
+    d!("with_mismatch", "m.with_mismatch(dvt: V, dbeta) -> Mos", "the device with a mismatch sample: threshold magnitude + dvt, current factor × (1 + dbeta)"),
     d!("sigma_vt", "m.sigma_vt() -> V", "σ(ΔVT) of a pair of these devices (Pelgrom)"),
     d!("sigma_beta", "m.sigma_beta() -> float", "σ(Δβ/β) of a pair of these devices (Pelgrom)"),
     d!("w", "m.w() -> m", "drawn width"),
@@ -96,6 +97,7 @@ pub const DOCS: &[Doc] = &[
     d!("rout", "mi.rout(v_out: V|Series) -> Ω", "output resistance at v_out"),
     d!("compliance", "mi.compliance() -> V", "lowest headroom from the mirror's rail with the current within 1 % of its saturation line"),
     d!("compliance", "mi.compliance(tol) -> V", "the same within a fraction tol"),
+    d!("compliance_rout", "mi.compliance_rout(frac) -> V", "lowest headroom above which Rout stays at least frac (0..1) of its value at full headroom"),
     d!("systematic_error", "mi.systematic_error(v_out: V|Series) -> float", "Iout/(ratio·Iref) − 1 at v_out"),
     d!("sigma_ratio", "mi.sigma_ratio() -> float", "σ of the current ratio from Pelgrom mismatch"),
     d!("pair_mismatch", "pair_mismatch(high: Mirror, low: Mirror, v_node: V|Series) -> map", "charge (PMOS) versus discharge (NMOS) current: #{systematic, sigma} as fractions of their mean"),
@@ -206,12 +208,14 @@ impl<'a> Opts<'a> {
     }
 }
 
-fn pair_design(o: &mut Opts, p: &Process) -> R<PairDesign> {
+/// A comparator design from an option map; `sized` false when the caller sets W and L itself.
+fn pair_design(o: &mut Opts, p: &Process, sized: bool) -> R<PairDesign> {
     let kind = lift(MosType::parse(&o.text("type", "n")?).map_err(|e| format!("{}: key 'type': {e}", o.f)))?;
+    let (w, l) = if sized { (o.req("w")?, o.req("l")?) } else { (1e-6, 1e-6) };
     Ok(PairDesign {
         kind,
-        w: o.req("w")?,
-        l: o.req("l")?,
+        w,
+        l,
         i_tail: o.req("i_tail")?,
         c_load: o.req("c_load")?,
         tail_w: o.or("tail_w", 2e-6)?,
@@ -280,13 +284,11 @@ fn register_process(engine: &mut Engine, session: &Shared) {
     engine.register_fn("corners", |p: &mut Process| -> Array { p.corner_names().into_iter().map(Dynamic::from).collect() });
     engine.register_fn("corner", |p: &mut Process, name: &str| lift(p.at_corner(name).map_err(|e| format!("corner: {e}"))));
     engine.register_fn("with_vdd", |p: &mut Process, v: Dynamic| -> R<Process> {
-        let v = num(&v, "with_vdd: vdd")?;
-        if !(0.3..=20.0).contains(&v) {
-            return err(format!("with_vdd: vdd must be in 0.3..20 V, got {v}"));
-        }
-        Ok(Process { vdd: v, ..p.clone() })
+        lift(p.with_vdd(num(&v, "with_vdd: vdd")?).map_err(|e| format!("with_vdd: {e}")))
     });
-    engine.register_fn("with_temp", |p: &mut Process, t: Dynamic| -> R<Process> { Ok(Process { temp: temp(&t, "with_temp")?, ..p.clone() }) });
+    engine.register_fn("with_temp", |p: &mut Process, t: Dynamic| -> R<Process> {
+        lift(p.with_temp(num(&t, "with_temp: temp")?).map_err(|e| format!("with_temp: {e}")))
+    });
     for (name, kind) in [("nmos", MosType::N), ("pmos", MosType::P)] {
         engine.register_fn(name, move |p: &mut Process, w: Dynamic, l: Dynamic| -> R<Mos> {
             let (w, l) = (num(&w, &format!("{name}: w"))?, num(&l, &format!("{name}: l"))?);
@@ -319,13 +321,13 @@ fn register_process(engine: &mut Engine, session: &Shared) {
     });
     engine.register_fn("comparator", |p: &mut Process, m: Map| -> R<Comparator> {
         let mut o = Opts::new(&m, "comparator");
-        let d = pair_design(&mut o, p)?;
+        let d = pair_design(&mut o, p, true)?;
         o.finish()?;
         lift(Comparator::from_pair(p, &d))
     });
     engine.register_fn("pair_tradeoff", |p: &mut Process, m: Map| -> R<Map> {
         let mut o = Opts::new(&m, "pair_tradeoff");
-        let d = pair_design(&mut o, p)?;
+        let d = pair_design(&mut o, p, false)?;
         let ratio = o.or("w_over_l", 4.0)?;
         let areas = match o.get("areas") {
             Some(v) => series_of(v, "pair_tradeoff: key 'areas'")?,
@@ -411,6 +413,9 @@ fn register_mos(engine: &mut Engine) {
         Ok(out)
     });
     engine.register_fn("cj", |m: &mut Mos, vr: Dynamic| -> R<Dynamic> { each(&vr, "v_reverse", "m.cj", |v| Ok(m.cj_diffusion(v))) });
+    engine.register_fn("with_mismatch", |m: &mut Mos, dvt: Dynamic, db: Dynamic| -> R<Mos> {
+        lift(m.with_mismatch(num(&dvt, "m.with_mismatch: dvt")?, num(&db, "m.with_mismatch: dbeta")?))
+    });
     engine.register_fn("sigma_vt", |m: &mut Mos| m.sigma_vt());
     engine.register_fn("sigma_beta", |m: &mut Mos| m.sigma_beta());
     engine.register_fn("w", |m: &mut Mos| m.w);
@@ -460,16 +465,27 @@ fn register_mirror(engine: &mut Engine) {
     engine.register_fn("mirror", |m: Map| -> R<Mirror> {
         let mut o = Opts::new(&m, "mirror");
         let (i, r, vc, s) = (o.req("i_out")?, o.req("rout")?, o.req("v_compliance")?, o.or("sigma", 0.0)?);
+        let ty = lift(MosType::parse(&o.text("type", "n")?).map_err(|e| format!("mirror: key 'type': {e}")))?;
+        let vdd = o.get("vdd").cloned();
         o.finish()?;
-        lift(Mirror::explicit(i, r, vc, s))
+        let m = lift(Mirror::explicit(i, r, vc, s))?;
+        match (ty, vdd) {
+            (MosType::N, None) => Ok(m),
+            (MosType::N, Some(_)) => err("mirror: key 'vdd' is for a sourcing mirror (type \"p\")"),
+            (MosType::P, None) => err("mirror: a sourcing mirror (type \"p\") needs key 'vdd'"),
+            (MosType::P, Some(v)) => lift(m.sourcing(num(&v, "mirror: key 'vdd'")?)),
+        }
     });
     engine.register_fn("i_out", |m: &mut Mirror, v: Dynamic| -> R<Dynamic> { each(&v, "v_out", "mi.i_out", |x| finite(m.i_out(x), "mi.i_out")) });
     engine.register_fn("rout", |m: &mut Mirror, v: Dynamic| -> R<Dynamic> { each(&v, "v_out", "mi.rout", |x| finite(m.rout(x), "mi.rout")) });
     engine.register_fn("systematic_error", |m: &mut Mirror, v: Dynamic| -> R<Dynamic> {
         each(&v, "v_out", "mi.systematic_error", |x| finite(m.systematic_error(x), "mi.systematic_error"))
     });
-    engine.register_fn("compliance", |m: &mut Mirror| -> R<f64> { lift(m.compliance(headroom(m), 0.01)) });
-    engine.register_fn("compliance", |m: &mut Mirror, tol: Dynamic| -> R<f64> { lift(m.compliance(headroom(m), num(&tol, "mi.compliance: tol")?)) });
+    engine.register_fn("compliance", |m: &mut Mirror| -> R<f64> { lift(m.compliance(m.headroom(), 0.01)) });
+    engine.register_fn("compliance", |m: &mut Mirror, tol: Dynamic| -> R<f64> { lift(m.compliance(m.headroom(), num(&tol, "mi.compliance: tol")?)) });
+    engine.register_fn("compliance_rout", |m: &mut Mirror, frac: Dynamic| -> R<f64> {
+        lift(m.compliance_rout(m.headroom(), num(&frac, "mi.compliance_rout: frac")?))
+    });
     engine.register_fn("sigma_ratio", |m: &mut Mirror| m.sigma_ratio());
     engine.register_fn("pair_mismatch", |h: Mirror, l: Mirror, v: Dynamic| -> R<Map> {
         let f = "pair_mismatch";
@@ -485,12 +501,6 @@ fn register_mirror(engine: &mut Engine) {
         out.insert("sigma".into(), sig);
         Ok(out)
     });
-}
-
-/// Headroom over which a mirror's compliance is searched: its supply, or 4× the explicit
-/// compliance voltage of a behavioural mirror.
-fn headroom(m: &Mirror) -> f64 {
-    if m.vdd.is_finite() { m.vdd } else { 4.0 * m.compliance(1e3, 0.01).unwrap_or(1.0).min(250.0) }
 }
 
 fn register_comparator(engine: &mut Engine) {

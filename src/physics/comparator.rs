@@ -105,7 +105,10 @@ impl Comparator {
 
     /// A comparator built from an input pair of the process: gm at Id = I_tail/2, gain
     /// A0 = gm·(ro_pair ∥ ro_load) with ro_load = ro_pair, GBW = gm/(2π·C_load),
-    /// slew = I_tail/C_load (Razavi ch. 5 and 9; common practice), offset σ from Pelgrom.
+    /// slew = I_tail/C_load, all at the bias the tail actually delivers at v_cm (an error when it
+    /// delivers less than half; Razavi ch. 5 and 9; common practice); offset σ from Pelgrom for
+    /// the input pair and its load mirror (`pair_offset_sigma`). The load mirror is the
+    /// complementary device of the pair's W/L, diode-connected on the input's side.
     pub fn from_pair(pr: &Process, d: &PairDesign) -> Result<Comparator, String> {
         let temp = pr.temp;
         let vdd = pr.vdd;
@@ -125,7 +128,7 @@ impl Comparator {
         };
         let load = Mos::from_process(pr, load_kind, d.w, d.l)?;
         let id = 0.5 * d.i_tail;
-        let v_load = load.vgs_for(id, 0.5 * vdd, temp)?;
+        let v_load = load.diode_vgs(id, temp)?;
         let v_drain = vdd - v_load;
         if v_drain <= 0.0 {
             return Err(format!("comparator: the diode load needs {v_load:.3} V, more than the supply {vdd} V"));
@@ -135,17 +138,36 @@ impl Comparator {
         let stage = PairStage { pair: pair.clone(), tail, v_drain, vdd, temp, a_drain: 1.0 };
         let v_cm = stage.frame(d.v_cm);
         let vs = stage.tail_node(v_cm);
-        let (_, gm, _, gds) = pair.ids_derivs(v_cm, vs, v_drain, temp);
-        let gm_id = gm / id;
+        let (id_on, gm, _, gds) = pair.ids_derivs(v_cm, vs, v_drain, temp);
+        if !(id_on >= 0.5 * id) {
+            return Err(format!(
+                "comparator: at v_cm = {} V the tail current source has no headroom (each input device carries {:.3e} A of the intended {id:.3e} A); {}",
+                d.v_cm,
+                id_on,
+                match d.kind {
+                    MosType::N => "raise v_cm or use a PMOS pair (type \"p\")",
+                    MosType::P => "lower v_cm or use an NMOS pair (type \"n\")",
+                }
+            ));
+        }
+        let gm_id = gm / id_on;
         let a0 = gm / (2.0 * gds);
+        // The load diode carries the current the pair really gets.
+        let v_l = load.diode_vgs(id_on, temp)?;
+        let (_, gm_load, _, _) = load.ids_derivs(v_l, 0.0, v_l, temp);
+        let sigma_offset = pair_offset_sigma(
+            mismatch::offset_sigma(gm_id, pair.sigma_vt(), pair.sigma_beta()),
+            mismatch::offset_sigma(gm_load / id_on, load.sigma_vt(), load.sigma_beta()),
+            gm_load / gm,
+        );
         let spec = ComparatorSpec {
             a0,
             gbw: gm / (2.0 * PI * d.c_load),
-            slew: d.i_tail / d.c_load,
+            slew: 2.0 * id_on / d.c_load,
             v_swing: d.v_swing,
             t0: d.t0,
             offset: d.offset,
-            sigma_offset: mismatch::offset_sigma(gm_id, pair.sigma_vt(), pair.sigma_beta()),
+            sigma_offset,
             c_in: 0.0,
             hyst: d.hyst,
         };
@@ -226,6 +248,13 @@ impl PairStage {
     }
 }
 
+/// Input-referred offset σ of a differential pair with a current-mirror load: the pair's own σ
+/// and the load pair's σ referred to the input by gm_load/gm_pair, in quadrature
+/// (Razavi, Design of Analog CMOS ICs, ch. 14; Pelgrom 1989), V.
+pub fn pair_offset_sigma(sigma_pair: f64, sigma_load: f64, gm_ratio: f64) -> f64 {
+    (sigma_pair.powi(2) + (gm_ratio * sigma_load).powi(2)).sqrt()
+}
+
 /// Delay for an overdrive step of a single-pole amplifier (gain a0, time constant tau) whose
 /// output rate is limited to `slew`: slewing while (A0·Vod − v)/τ > SR, then exponential
 /// settling, until the output has moved dv (Johns & Martin, Analog IC Design, ch. 10; Razavi
@@ -255,6 +284,10 @@ pub fn ramp_delay(a0: f64, tau: f64, slew: f64, dv: f64, slope: f64) -> f64 {
         return f64::INFINITY;
     }
     let k = a0 * slope;
+    if !k.is_finite() {
+        // An instant step of unbounded size: slewing from the start.
+        return dv / slew;
+    }
     let lin = |t: f64| k * (t - tau * (-(-t / tau).exp_m1()));
     // Time the linear rate reaches the slew rate (never when A0·s ≤ SR).
     let t_s = if k > slew { -tau * (-slew / k).ln_1p() } else { f64::INFINITY };
@@ -264,7 +297,10 @@ pub fn ramp_delay(a0: f64, tau: f64, slew: f64, dv: f64, slope: f64) -> f64 {
     }
     // Linear phase: lin(t) is increasing and convex; bracket the crossing.
     let mut hi = (2.0 * dv / k * tau).sqrt().max(dv / k);
-    while lin(hi) < dv {
+    for _ in 0..2000 {
+        if lin(hi) >= dv {
+            break;
+        }
         hi *= 2.0;
     }
     brent(|t| lin(t) - dv, 0.0, hi, hi * 1e-13, 300).unwrap_or(hi)

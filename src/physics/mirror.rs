@@ -77,6 +77,18 @@ impl Mirror {
         })
     }
 
+    /// The same behavioural mirror as a high-side source from a supply vdd (V): its output
+    /// headroom is then vdd − v_out.
+    pub fn sourcing(&self, vdd: f64) -> Result<Mirror, String> {
+        if !matches!(self.model, Model::Explicit { .. }) {
+            return Err("mirror: only a behavioural mirror can be turned into a source; use type \"p\" for a device mirror".into());
+        }
+        if !(vdd.is_finite() && vdd > 0.0) {
+            return Err(format!("mirror: vdd must be > 0 V, got {vdd}"));
+        }
+        Ok(Mirror { polarity: MosType::P, vdd, ..self.clone() })
+    }
+
     /// A mirror of the process: unit device W/L (cascodes the same), output ratio × wider,
     /// input current i_ref; the wide-swing cascode biases the bottom pair `margin` volts
     /// above its saturation voltage. At the process's (corner) supply and temperature.
@@ -106,9 +118,9 @@ impl Mirror {
         let c_in = m_in.clone();
         let c_out = m_out.clone();
         let (vg, vb) = match kind {
-            MirrorKind::Simple => (diode(&m_in, i_ref, temp)?, 0.0),
+            MirrorKind::Simple => (m_in.diode_vgs(i_ref, temp)?, 0.0),
             MirrorKind::Cascode => {
-                let vg = diode(&m_in, i_ref, temp)?;
+                let vg = m_in.diode_vgs(i_ref, temp)?;
                 // Input cascode diode stacked on the input diode: gate = drain, source at vg.
                 let vb = solve_gate(|v| c_in.ids(v, vg, v, temp), i_ref, vg)?;
                 (vg, vb)
@@ -170,7 +182,7 @@ impl Mirror {
     }
 
     /// Output resistance at v_out: 1/(dIout/dVout), central difference of `i_out` over ±1 mV
-    /// (common practice); analytic rout for explicit mirrors above compliance, Ω.
+    /// (common practice), Ω.
     pub fn rout(&self, v_out: f64) -> f64 {
         let h = 1e-3;
         let g = (self.i_out(v_out + h) - self.i_out(v_out - h)) / (2.0 * h);
@@ -198,6 +210,34 @@ impl Mirror {
         brent(f, 1e-6, headroom_max, 1e-7, 200).map_err(|e| format!("mirror.compliance: {e}"))
     }
 
+    /// Output-resistance compliance: the lowest headroom (V from the mirror's rail) above which
+    /// Rout stays at least `frac` of its value at `headroom_max` (a cascode's Rout collapses
+    /// below Vgs + Vdsat, Razavi ch. 5); scanned downward in 5 mV steps, then refined by Brent, V.
+    pub fn compliance_rout(&self, headroom_max: f64, frac: f64) -> Result<f64, String> {
+        if !(headroom_max.is_finite() && headroom_max > 0.0) {
+            return Err(format!("mirror.compliance_rout: headroom must be > 0 V, got {headroom_max}"));
+        }
+        if !(frac.is_finite() && frac > 0.0 && frac < 1.0) {
+            return Err(format!("mirror.compliance_rout: frac must be in 0..1 (exclusive), got {frac}"));
+        }
+        let r = |h: f64| match self.polarity {
+            MosType::N => self.rout(h),
+            MosType::P => self.rout(self.vdd - h),
+        };
+        let target = frac * r(headroom_max - 2e-3);
+        let f = |h: f64| (r(h) / target).ln();
+        let step = 5e-3;
+        let mut hi = headroom_max - 2e-3;
+        while hi - step > 2e-3 {
+            let lo = hi - step;
+            if f(lo) < 0.0 {
+                return brent(f, lo, hi, 1e-6, 200).map_err(|e| format!("mirror.compliance_rout: {e}"));
+            }
+            hi = lo;
+        }
+        Ok(hi)
+    }
+
     /// Systematic error Iout/(ratio·Iref) − 1 at v_out (from the Vds difference between input
     /// and output devices), fraction.
     pub fn systematic_error(&self, v_out: f64) -> f64 {
@@ -223,18 +263,23 @@ impl Mirror {
         }
     }
 
-    /// Gate voltage of the bottom pair and of the cascodes, magnitudes in the mirror's frame, V.
-    pub fn bias(&self) -> (f64, f64) {
+    /// Gate voltage of the bottom pair and of the cascodes (0 for a simple mirror), magnitudes in
+    /// the mirror's frame, V; None for a behavioural mirror.
+    pub fn bias(&self) -> Option<(f64, f64)> {
         match &self.model {
-            Model::Devices { vg, vb, .. } => (*vg, *vb),
-            Model::Explicit { .. } => (f64::NAN, f64::NAN),
+            Model::Devices { vg, vb, .. } => Some((*vg, *vb)),
+            Model::Explicit { .. } => None,
         }
     }
-}
 
-/// Gate voltage of a diode-connected device carrying `id`.
-fn diode(m: &Mos, id: f64, temp: f64) -> Result<f64, String> {
-    solve_gate(|v| m.id(v, v, temp), id, 0.0)
+    /// Headroom over which to look for the compliance: the supply, or 10× the compliance
+    /// voltage of a behavioural mirror, V.
+    pub fn headroom(&self) -> f64 {
+        match &self.model {
+            Model::Explicit { v_c, .. } => 10.0 * v_c,
+            Model::Devices { .. } => self.vdd,
+        }
+    }
 }
 
 /// Smallest-bracket solve of current(v) = id for a monotonic current, v above `lo`.

@@ -63,6 +63,8 @@ impl Mos {
     /// A device from explicit parameters; W and L are checked against the parameters' minima.
     pub fn new(kind: MosType, p: MosParams, w: f64, l: f64, tnom: f64) -> Result<Mos, String> {
         let name = kind.name();
+        p.check().map_err(|e| format!("{name}: {e}"))?;
+        super::constants::check_temp(tnom).map_err(|e| format!("{name}: tnom: {e}"))?;
         if !(w.is_finite() && w >= p.wmin && w <= MAX_DIM) {
             return Err(format!("{name}: w must be in {}..{MAX_DIM} m, got {w}", p.wmin));
         }
@@ -79,6 +81,21 @@ impl Mos {
             MosType::P => pr.pmos.clone(),
         };
         Mos::new(kind, p, w, l, pr.tnom)
+    }
+
+    /// The same device with a random mismatch sample applied: threshold shifted by `dvt` (V, on
+    /// the magnitude) and current factor scaled by (1 + `dbeta`) (Monte Carlo, Pelgrom 1989).
+    pub fn with_mismatch(&self, dvt: f64, dbeta: f64) -> Result<Mos, String> {
+        if !(dvt.is_finite() && dvt.abs() < 0.5) {
+            return Err(format!("{}: dvt must be in −0.5..0.5 V, got {dvt}", self.kind.name()));
+        }
+        if !(dbeta.is_finite() && dbeta > -0.9 && dbeta < 10.0) {
+            return Err(format!("{}: dbeta must be in −0.9..10, got {dbeta}", self.kind.name()));
+        }
+        let mut m = self.clone();
+        m.p.vth0 += dvt;
+        m.p.kp *= 1.0 + dbeta;
+        Ok(m)
     }
 
     /// The same device with another width (mirror ratios).
@@ -170,7 +187,8 @@ impl Mos {
         ekv::f((vgs - self.vt(temp_c)) / (self.p.n * thermal_voltage(temp_c)))
     }
 
-    /// Saturation voltage 2U_T√(IC + 1/4) + 3U_T (Enz, Krummenacher, Vittoz 1995; from memory):
+    /// Saturation voltage 2U_T√(IC + 1/4) + 3U_T (Binkley, Tradeoffs and Optimization in Analog
+    /// CMOS Design, 2008, EKV-based; from memory):
     /// (Vgs − VT)/n in strong inversion, about 4U_T in weak inversion, V.
     pub fn vdsat(&self, vgs: f64, temp_c: f64) -> f64 {
         let ut = thermal_voltage(temp_c);
@@ -199,6 +217,23 @@ impl Mos {
             }
         }
         crate::num::roots::brent(f, lo, hi, 1e-12, 200).map_err(|e| format!("{name}.vgs_for: {e}"))
+    }
+
+    /// Gate voltage of the device diode-connected (Vds = Vgs) carrying `id` (Brent), V.
+    pub fn diode_vgs(&self, id: f64, temp_c: f64) -> Result<f64, String> {
+        let name = self.kind.name();
+        if !(id.is_finite() && id > 0.0) {
+            return Err(format!("{name}.diode_vgs: id must be > 0 A, got {id}"));
+        }
+        let f = |v: f64| self.id(v, v, temp_c) - id;
+        let mut hi = 0.5;
+        while f(hi) < 0.0 {
+            hi += 0.5;
+            if hi > 20.0 {
+                return Err(format!("{name}: {id} A needs more than 20 V of diode voltage"));
+            }
+        }
+        crate::num::roots::brent(f, 0.0, hi, 1e-12, 300).map_err(|e| format!("{name}.diode_vgs: {e}"))
     }
 
     /// Small-signal on-resistance of the channel at Vds = 0, bulk-referred gate and channel

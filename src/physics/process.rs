@@ -207,6 +207,20 @@ impl Process {
         Ok(p)
     }
 
+    /// The process at another supply, V (devices made from it use it).
+    pub fn with_vdd(&self, vdd: f64) -> Result<Process, String> {
+        if !(vdd.is_finite() && (0.3..=20.0).contains(&vdd)) {
+            return Err(format!("vdd must be in 0.3..20 V, got {vdd}"));
+        }
+        Ok(Process { vdd, ..self.clone() })
+    }
+
+    /// The process at another temperature, °C (devices made from it use it).
+    pub fn with_temp(&self, temp: f64) -> Result<Process, String> {
+        super::constants::check_temp(temp)?;
+        Ok(Process { temp, ..self.clone() })
+    }
+
     pub fn resistor(&self, layer: &str) -> Result<&ResLayer, String> {
         self.resistors.get(layer).ok_or_else(|| {
             format!("process '{}' has no resistor layer '{layer}'; layers: {}", self.name, keys(&self.resistors))
@@ -224,32 +238,64 @@ fn keys<T>(m: &BTreeMap<String, T>) -> String {
     if m.is_empty() { "none".into() } else { m.keys().cloned().collect::<Vec<_>>().join(", ") }
 }
 
+/// Keys of a MOSFET table: (key, lowest, highest, unit), in the order of `MosParams::values`.
+pub const MOS_KEYS: [(&str, f64, f64, &str); 20] = [
+    ("vth0", 0.05, 2.0, "V"),
+    ("tc_vth", -5e-3, 1e-3, "V/K"),
+    ("kp", 1e-6, 1e-2, "A/V²"),
+    ("mu_exp", 0.0, 3.0, ""),
+    ("n", 1.0, 3.0, ""),
+    ("lambda_l", 0.0, 1e-6, "m/V"),
+    ("cox", 1e-4, 1e-1, "F/m²"),
+    ("cgso", 0.0, 1e-8, "F/m"),
+    ("cgdo", 0.0, 1e-8, "F/m"),
+    ("cj", 0.0, 1e-1, "F/m²"),
+    ("cjsw", 0.0, 1e-8, "F/m"),
+    ("pb", 0.1, 1.5, "V"),
+    ("pbsw", 0.1, 1.5, "V"),
+    ("mj", 0.1, 1.0, ""),
+    ("mjsw", 0.1, 1.0, ""),
+    ("ldiff", 0.0, 1e-4, "m"),
+    ("avt", 0.0, 1e-7, "V·m"),
+    ("abeta", 0.0, 1e-6, "m"),
+    ("lmin", 1e-9, 1e-4, "m"),
+    ("wmin", 1e-9, 1e-4, "m"),
+];
+
+impl MosParams {
+    /// The parameters in the order of `MOS_KEYS`.
+    pub fn values(&self) -> [f64; 20] {
+        [
+            self.vth0, self.tc_vth, self.kp, self.mu_exp, self.n, self.lambda_l, self.cox, self.cgso, self.cgdo, self.cj,
+            self.cjsw, self.pb, self.pbsw, self.mj, self.mjsw, self.ldiff, self.avt, self.abeta, self.lmin, self.wmin,
+        ]
+    }
+
+    /// Parameters from values in the order of `MOS_KEYS`.
+    pub fn from_values(v: [f64; 20]) -> MosParams {
+        let [vth0, tc_vth, kp, mu_exp, n, lambda_l, cox, cgso, cgdo, cj, cjsw, pb, pbsw, mj, mjsw, ldiff, avt, abeta, lmin, wmin] = v;
+        MosParams { vth0, tc_vth, kp, mu_exp, n, lambda_l, cox, cgso, cgdo, cj, cjsw, pb, pbsw, mj, mjsw, ldiff, avt, abeta, lmin, wmin }
+    }
+
+    /// Check explicit parameters against the ranges a process file allows; errors name the key.
+    pub fn check(&self) -> Result<(), String> {
+        for ((key, lo, hi, unit), x) in MOS_KEYS.iter().zip(self.values()) {
+            if !(x.is_finite() && x >= *lo && x <= *hi) {
+                return Err(format!("MOSFET parameter {key} = {x} is out of range; allowed {lo}..{hi} {unit}"));
+            }
+        }
+        Ok(())
+    }
+}
+
 fn mos_params(t: &toml::Table, path: &str, file: &str) -> Result<MosParams, String> {
     let mut r = Reader::new(t, path, file);
-    let p = MosParams {
-        vth0: r.num("vth0", 0.05, 2.0, "V")?,
-        tc_vth: r.num("tc_vth", -5e-3, 1e-3, "V/K")?,
-        kp: r.num("kp", 1e-6, 1e-2, "A/V²")?,
-        mu_exp: r.num("mu_exp", 0.0, 3.0, "")?,
-        n: r.num("n", 1.0, 3.0, "")?,
-        lambda_l: r.num("lambda_l", 0.0, 1e-6, "m/V")?,
-        cox: r.num("cox", 1e-4, 1e-1, "F/m²")?,
-        cgso: r.num("cgso", 0.0, 1e-8, "F/m")?,
-        cgdo: r.num("cgdo", 0.0, 1e-8, "F/m")?,
-        cj: r.num("cj", 0.0, 1e-1, "F/m²")?,
-        cjsw: r.num("cjsw", 0.0, 1e-8, "F/m")?,
-        pb: r.num("pb", 0.1, 1.5, "V")?,
-        pbsw: r.num("pbsw", 0.1, 1.5, "V")?,
-        mj: r.num("mj", 0.1, 1.0, "")?,
-        mjsw: r.num("mjsw", 0.1, 1.0, "")?,
-        ldiff: r.num("ldiff", 0.0, 1e-4, "m")?,
-        avt: r.num("avt", 0.0, 1e-7, "V·m")?,
-        abeta: r.num("abeta", 0.0, 1e-6, "m")?,
-        lmin: r.num("lmin", 1e-9, 1e-4, "m")?,
-        wmin: r.num("wmin", 1e-9, 1e-4, "m")?,
-    };
+    let mut v = [0.0; 20];
+    for (x, (key, lo, hi, unit)) in v.iter_mut().zip(MOS_KEYS) {
+        *x = r.num(key, lo, hi, unit)?;
+    }
     r.finish()?;
-    Ok(p)
+    Ok(MosParams::from_values(v))
 }
 
 fn res_layer(t: &toml::Table, path: &str, file: &str) -> Result<ResLayer, String> {

@@ -53,6 +53,29 @@ for i_target in (1e-9, 1e-6, 1e-4):
     v = optimize.brentq(lambda v: ids(v, 0, 0.9) - i_target, -1.0, 5.0, xtol=1e-14)
     print(f"({i_target!r}, {v!r}),")
 
+# --- Switch on-resistance: 1/(dId/dVd) at Vd = Vs, bulk-referred (body effect) ------------
+print("# switch Ron at VDD = 1.8 V, 27 °C: NMOS 1u/0.18u, PMOS 2u/0.18u, TG (central differences)")
+PMOS = dict(vth0=0.48, kp=70e-6, n=1.40, mu_exp=1.3, tc=-1.2e-3)
+LAMBDA_P = 0.08e-6
+
+
+def ids_p(vg, vs, vd, w, l):
+    # magnitudes in the PMOS frame; same EKV equations with the PMOS parameters
+    global LAMBDA_L
+    saved, LAMBDA_L = LAMBDA_L, LAMBDA_P
+    try:
+        return ids(vg, vs, vd, w=w, l=l, **PMOS)
+    finally:
+        LAMBDA_L = saved
+
+
+hs = 1e-7
+for vsig in (0.0, 0.5, 0.9, 1.3, 1.8):
+    gn = (ids(1.8, vsig, vsig + hs, w=1e-6, l=0.18e-6) - ids(1.8, vsig, vsig - hs, w=1e-6, l=0.18e-6)) / (2 * hs)
+    vp = 1.8 - vsig
+    gp = (ids_p(1.8, vp, vp + hs, 2e-6, 0.18e-6) - ids_p(1.8, vp, vp - hs, 2e-6, 0.18e-6)) / (2 * hs)
+    print(f"({vsig}, {1 / gn!r}, {1 / gp!r}, {1 / (gn + gp)!r}),")
+
 # --- Cascode mirror output (demo180 NMOS 4 µm / 2 µm, Iref = 1 µA, ratio 1) ------------
 print("# cascode mirror: iout(vout) by scipy brentq on the internal node")
 W2, L2, IREF = 4e-6, 2e-6, 1e-6
