@@ -71,6 +71,10 @@ pub fn eng(x: f64, unit: &str, digits: usize) -> String {
     }
     // Round to the requested significant digits first, so 999.96 becomes 1.00 k, not 1000.
     let rounded: f64 = format!("{:.*e}", digits - 1, x).parse().unwrap_or(x);
+    let power = unit_power(unit);
+    if power > 1 {
+        return eng_power(rounded, unit, digits, power);
+    }
     let exp10 = rounded.abs().log10().floor() as i32;
     let exp3 = exp10.div_euclid(3) * 3;
     match prefix_symbol(exp3) {
@@ -85,9 +89,43 @@ pub fn eng(x: f64, unit: &str, digits: usize) -> String {
     }
 }
 
+/// The power of a unit written with a superscript: 2 for `m²`, 3 for `m³`, else 1.
+fn unit_power(unit: &str) -> i32 {
+    match unit.chars().last() {
+        Some('²') => 2,
+        Some('³') => 3,
+        _ => 1,
+    }
+}
+
+/// Engineering notation for a unit raised to `power`: the prefix applies to the base unit
+/// (SI Brochure 9th ed., 3: "µm²" means (µm)², so 1 µm² = 1e-12 m²). The prefix is chosen so
+/// that the side length of an area sits between 0.1 and 100 of the prefixed unit.
+fn eng_power(x: f64, unit: &str, digits: usize, power: i32) -> String {
+    let root = x.abs().powf(1.0 / power as f64);
+    let exp3 = ((root.log10() + 1.0) / 3.0).floor() as i32 * 3;
+    match prefix_symbol(exp3) {
+        Some(p) => {
+            let mant = x / 10f64.powi(exp3 * power);
+            let int_digits = mant.abs().log10().floor() as i32 + 1;
+            let decimals = (digits as i32 - int_digits).max(0) as usize;
+            format!("{mant:.decimals$} {p}{unit}")
+        }
+        None => format!("{:.*e} {unit}", digits - 1, x),
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
+    #[test]
+    fn formats_areas_with_the_prefix_on_the_length() {
+        // 1 µm² = 1e-12 m² (SI Brochure: a prefix binds to its unit before the power).
+        assert_eq!(eng(3.98e-12, "m²", 3), "3.98 µm²");
+        assert_eq!(eng(4e-10, "m²", 3), "400 µm²");
+        assert_eq!(eng(2.5e-13, "m²", 3), "0.250 µm²");
+        assert_eq!(eng(1e-18, "m³", 3), "1.00 µm³");
+    }
     #[test]
     fn formats_with_prefixes() {
         assert_eq!(eng(3.33e-6, "s", 3), "3.33 µs");

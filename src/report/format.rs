@@ -20,8 +20,16 @@ pub fn value(x: f64, unit: &str, digits: usize) -> String {
 }
 
 /// `x` for a table cell or tick whose unit is written elsewhere: `3.33µ`, `1.50`.
+/// A unit with a power (`m²`) keeps its unit, since a bare prefix would read as a prefix of
+/// the whole unit (`4p` of m² is 4 µm², not 4 pm²).
 pub fn bare(x: f64, unit: &str, digits: usize) -> String {
-    if plain_unit(unit) { plain(x, digits) } else { eng(x, "", digits) }
+    if plain_unit(unit) {
+        plain(x, digits)
+    } else if unit.ends_with(['²', '³']) {
+        eng(x, unit, digits)
+    } else {
+        eng(x, "", digits)
+    }
 }
 
 /// `digits` significant digits without a prefix; exponent form outside 1e-4 … 1e9.
@@ -63,6 +71,7 @@ mod tests {
         assert_eq!(value(125.0, "°C", 3), "125 °C");
         assert_eq!(bare(3.333e-6, "s", 3), "3.33µ");
         assert_eq!(bare(4700.0, "Ohm", 3), "4.70k");
+        assert_eq!(bare(4e-12, "m²", 3), "4.00 µm²");
         assert_eq!(plain(-40.0, 3), "-40.0");
         assert_eq!(plain(1.0e-7, 3), "1.00e-7");
         assert_eq!(trim_zeros("2.50µ"), "2.5µ");
