@@ -52,8 +52,7 @@ pub fn cycle(v: &View) -> Result<Cycle, String> {
         let x2 = b.v_end + kick(b.v_end);
         Ok::<_, String>((a, b, x2))
     };
-    let ([x0], iterations) = steady(|[x]| Ok([one(x)?.2]), [vt + vdd])?;
-    let (a, b, _) = one(x0)?;
+    let ((a, b), iterations) = steady(|[x]| one(x).map(|(a, b, n)| ([n], (a, b))), [vt + vdd])?;
     let period = a.ramp + a.delay + b.ramp + b.delay;
     Ok(Cycle {
         period,

@@ -78,8 +78,7 @@ pub fn cycle(v: &View) -> Result<Cycle, String> {
         let b = ramp_phase("discharge", &c, &dn, a.v_end, lo, &d_lo)?;
         Ok::<_, String>((a, b))
     };
-    let ([start], iterations) = steady(|[x]| Ok([one(x)?.1.v_end]), [lo])?;
-    let (a, b) = one(start)?;
+    let ((a, b), iterations) = steady(|[x]| one(x).map(|(a, b)| ([b.v_end], (a, b))), [lo])?;
     let period = a.ramp + a.delay + b.ramp + b.delay;
     let cy = Cycle {
         period,
