@@ -29,7 +29,7 @@ pub const DOCS: &[Doc] = &[
     Doc { name: "v_peak", sig: "o.v_peak() -> float", summary: "highest node voltage over the cycle, overshoot included, V" },
     Doc { name: "overshoot", sig: "o.overshoot() -> float", summary: "largest excursion of the node beyond a threshold caused by the delay chain, V" },
     Doc { name: "cycle", sig: "o.cycle() -> map", summary: "period, frequency, duty, v_peak, v_valley (V), overshoot (V), iterations, phases (array of #{name, v_start, v_threshold, v_end, ramp, delay, slope})" },
-    Doc { name: "budget", sig: "o.budget() -> map", summary: "error budget: ideal, full, total_error, remainder, ideal_comparators, comparator_share, ideal_delay_chain, delay_chain_share (s); rows (array of maps for table); waterfall and buildup (#{labels, y} for plot kind \"bar\", waterfall: true)" },
+    Doc { name: "budget", sig: "o.budget() -> map", summary: "error budget: ideal, full, total_error, remainder, ideal_comparators, comparator_share, ideal_delay_chain, delay_chain_share (s); rows (array of #{parasitic, alone, alone_pct, step, step_pct, cumulative} for table; pct = % of the ideal period); waterfall and buildup (#{labels, y} for plot kind \"bar\", waterfall: true)" },
     Doc { name: "at", sig: "o.at(#{temp: °C, vdd: V, corner: string}) -> Oscillator", summary: "the same oscillator at another operating point (any of the keys)" },
     Doc { name: "modified", sig: "o.modified(params: map) -> Oscillator", summary: "a copy of the oscillator with some keys changed (checked like osc); o itself is unchanged" },
     Doc { name: "sweep", sig: "o.sweep(key: string, values: Series) -> Series", summary: "period with every parasitic for each value of one key, s" },
@@ -110,8 +110,9 @@ fn budget_map(o: &Osc) -> R<Map> {
             let mut q = Map::new();
             q.insert("parasitic".into(), Dynamic::from(r.parasitic.label().to_string()));
             q.insert("alone".into(), f(r.alone));
-            q.insert("alone_ppm".into(), f(r.alone / b.ideal * 1e6));
+            q.insert("alone_pct".into(), f(r.alone / b.ideal * 100.0));
             q.insert("step".into(), f(r.step));
+            q.insert("step_pct".into(), f(r.step / b.ideal * 100.0));
             q.insert("cumulative".into(), f(r.cumulative));
             Dynamic::from_map(q)
         })
