@@ -223,11 +223,21 @@ impl Mirror {
         }
     }
 
-    /// Gate voltage of the bottom pair and of the cascodes, magnitudes in the mirror's frame, V.
-    pub fn bias(&self) -> (f64, f64) {
+    /// Gate voltage of the bottom pair and of the cascodes (0 for a simple mirror), magnitudes in
+    /// the mirror's frame, V; None for a behavioural mirror.
+    pub fn bias(&self) -> Option<(f64, f64)> {
         match &self.model {
-            Model::Devices { vg, vb, .. } => (*vg, *vb),
-            Model::Explicit { .. } => (f64::NAN, f64::NAN),
+            Model::Devices { vg, vb, .. } => Some((*vg, *vb)),
+            Model::Explicit { .. } => None,
+        }
+    }
+
+    /// Headroom over which to look for the compliance: the supply, or 10× the compliance
+    /// voltage of a behavioural mirror, V.
+    pub fn headroom(&self) -> f64 {
+        match &self.model {
+            Model::Explicit { v_c, .. } => 10.0 * v_c,
+            Model::Devices { .. } => self.vdd,
         }
     }
 }

@@ -81,6 +81,21 @@ impl Mos {
         Mos::new(kind, p, w, l, pr.tnom)
     }
 
+    /// The same device with a random mismatch sample applied: threshold shifted by `dvt` (V, on
+    /// the magnitude) and current factor scaled by (1 + `dbeta`) (Monte Carlo, Pelgrom 1989).
+    pub fn with_mismatch(&self, dvt: f64, dbeta: f64) -> Result<Mos, String> {
+        if !(dvt.is_finite() && dvt.abs() < 0.5) {
+            return Err(format!("{}: dvt must be in −0.5..0.5 V, got {dvt}", self.kind.name()));
+        }
+        if !(dbeta.is_finite() && dbeta > -0.9 && dbeta < 10.0) {
+            return Err(format!("{}: dbeta must be in −0.9..10, got {dbeta}", self.kind.name()));
+        }
+        let mut m = self.clone();
+        m.p.vth0 += dvt;
+        m.p.kp *= 1.0 + dbeta;
+        Ok(m)
+    }
+
     /// The same device with another width (mirror ratios).
     pub fn with_w(&self, w: f64) -> Result<Mos, String> {
         Mos::new(self.kind, self.p.clone(), w, self.l, self.tnom)
@@ -170,7 +185,8 @@ impl Mos {
         ekv::f((vgs - self.vt(temp_c)) / (self.p.n * thermal_voltage(temp_c)))
     }
 
-    /// Saturation voltage 2U_T√(IC + 1/4) + 3U_T (Enz, Krummenacher, Vittoz 1995; from memory):
+    /// Saturation voltage 2U_T√(IC + 1/4) + 3U_T (Binkley, Tradeoffs and Optimization in Analog
+    /// CMOS Design, 2008, EKV-based; from memory):
     /// (Vgs − VT)/n in strong inversion, about 4U_T in weak inversion, V.
     pub fn vdsat(&self, vgs: f64, temp_c: f64) -> f64 {
         let ut = thermal_voltage(temp_c);

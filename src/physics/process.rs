@@ -207,6 +207,20 @@ impl Process {
         Ok(p)
     }
 
+    /// The process at another supply, V (devices made from it use it).
+    pub fn with_vdd(&self, vdd: f64) -> Result<Process, String> {
+        if !(vdd.is_finite() && (0.3..=20.0).contains(&vdd)) {
+            return Err(format!("vdd must be in 0.3..20 V, got {vdd}"));
+        }
+        Ok(Process { vdd, ..self.clone() })
+    }
+
+    /// The process at another temperature, °C (devices made from it use it).
+    pub fn with_temp(&self, temp: f64) -> Result<Process, String> {
+        super::constants::check_temp(temp)?;
+        Ok(Process { temp, ..self.clone() })
+    }
+
     pub fn resistor(&self, layer: &str) -> Result<&ResLayer, String> {
         self.resistors.get(layer).ok_or_else(|| {
             format!("process '{}' has no resistor layer '{layer}'; layers: {}", self.name, keys(&self.resistors))
