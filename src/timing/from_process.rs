@@ -32,7 +32,7 @@ pub struct ProcessOrigin {
 }
 
 /// An oscillator of `kind` built from `process`; `pairs` as for `osc`, with device sizes.
-/// The supply defaults to the process's nominal supply.
+/// The supply and temperature default to those of the process object.
 pub fn osc_from(process: &Process, kind: Kind, choices: Choices, pairs: &[(String, f64)]) -> Result<Osc, String> {
     process.capacitor(&choices.cap_type)?;
     let mut pairs = pairs.to_vec();
@@ -40,17 +40,20 @@ pub fn osc_from(process: &Process, kind: Kind, choices: Choices, pairs: &[(Strin
         pairs.push(("vdd".into(), process.vdd));
     }
     if !pairs.iter().any(|(k, _)| k == "temp") {
-        pairs.push(("temp".into(), process.tnom));
+        pairs.push(("temp".into(), process.temp));
     }
     Osc::from_origin(kind, &pairs, Arc::new(ProcessOrigin { process: process.clone(), choices }))
 }
 
 impl ProcessOrigin {
+    /// Name of the process as passed in: its applied corner, or "nominal".
+    fn as_given(&self) -> &str {
+        if self.process.corner.is_empty() { "nominal" } else { &self.process.corner }
+    }
+
     fn at(&self, p: &Params, corner: &str) -> Result<Process, String> {
-        let mut pr = if corner == "nominal" { self.process.clone() } else { self.process.at_corner(corner)? };
-        pr.temp = p.get("temp");
-        pr.vdd = p.get("vdd");
-        Ok(pr)
+        let pr = if corner == self.as_given() { self.process.clone() } else { self.process.at_corner(corner)? };
+        pr.with_temp(p.get("temp"))?.with_vdd(p.get("vdd"))
     }
 }
 
@@ -62,8 +65,10 @@ impl Origin for ProcessOrigin {
         Mode::Process
     }
     fn corners(&self) -> Vec<String> {
-        let mut v = vec!["nominal".to_string()];
-        v.extend(self.process.corner_names());
+        let mut v = vec![self.as_given().to_string()];
+        if self.process.corner.is_empty() {
+            v.extend(self.process.corner_names());
+        }
         v
     }
     fn corner_point(&self, corner: &str) -> Option<(f64, f64)> {
