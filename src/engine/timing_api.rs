@@ -18,7 +18,7 @@ type R<T> = Result<T, Box<EvalAltResult>>;
 
 pub const DOCS: &[Doc] = &[
     Doc { name: "osc", sig: "osc(kind: string, params: map) -> Oscillator", summary: "an oscillator from explicit numbers; kinds \"rc-inverter\", \"schmitt\", \"window\", \"reset\", \"pingpong\"; keys c (F), i (A), r (Ω), v_lo, v_hi, vdd (V), temp (°C) and one key per parasitic (default ideal); osc_keys(kind) lists them" },
-    Doc { name: "osc_from", sig: "osc_from(process: Process|string, kind: string, params: map) -> Oscillator", summary: "an oscillator whose parts are devices of a process (a process object, or a built-in name such as \"demo180\"): mirrors, switches, input-pair comparators, process capacitor; device sizes mirror_w, mirror_l, sw_w, sw_l, cmp_w, cmp_l (m), cmp_itail (A), cmp_cload (F); names cap_type (default \"mim\") and mirror (\"simple\", \"cascode\", \"wide-swing\"; default \"cascode\"); osc_keys(kind, \"process\") lists the keys" },
+    Doc { name: "osc_from", sig: "osc_from(process: Process|string, kind: string, params: map) -> Oscillator", summary: "an oscillator whose parts are devices of a process (a process object, or a built-in name such as \"demo180\"): mirrors, switches, input-pair comparators, process capacitor; device sizes mirror_w, mirror_l, sw_w, sw_l, cmp_w, cmp_l (m), cmp_itail (A), cmp_cload (F); inverter sizes inv_wn, inv_wp, inv_l (m); names cap_type (default \"mim\"), res_type (default \"rpoly\") and mirror (\"simple\", \"cascode\", \"wide-swing\"; default \"cascode\"); osc_keys(kind, \"process\") lists the keys" },
     Doc { name: "osc_keys", sig: "osc_keys(kind: string) -> array", summary: "the keys an oscillator kind accepts in osc(), each as \"name (unit): meaning [default]\"" },
     Doc { name: "osc_keys", sig: "osc_keys(kind: string, \"process\") -> array", summary: "the numeric keys of osc_from() for that kind" },
     Doc { name: "corners", sig: "o.corners() -> array", summary: "the corners the oscillator can be evaluated at (o.at(#{corner: name}))" },
@@ -182,7 +182,8 @@ fn from_process(pr: &Process, k: &str, mut m: Map) -> R<Osc> {
     };
     let cap_type = name("cap_type", "mim")?;
     let mirror = lift(MirrorKind::parse(&name("mirror", "cascode")?).map_err(|e| format!("{what}: key 'mirror': {e}")))?;
-    lift(osc_from(pr, kind, Choices { cap_type, mirror }, &pairs(&what, &m)?))
+    let res_type = name("res_type", "rpoly")?;
+    lift(osc_from(pr, kind, Choices { cap_type, mirror, res_type }, &pairs(&what, &m)?))
 }
 
 pub fn register(engine: &mut Engine, _session: &Shared) {

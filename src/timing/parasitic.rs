@@ -6,6 +6,8 @@
 pub enum Parasitic {
     /// Voltage coefficient of the timing capacitor (keys c_vc1, c_vc2).
     CapVc,
+    /// Voltage coefficient of the timing resistor (key r_vc).
+    ResVc,
     /// Junction capacitance the switches add to the node, versus voltage (c_swn, c_swp).
     SwitchCap,
     /// Input capacitance of the comparator / trigger / inverter on the node (c_in).
@@ -28,8 +30,9 @@ pub enum Parasitic {
     Reset,
 }
 
-pub const ALL: [Parasitic; 11] = [
+pub const ALL: [Parasitic; 12] = [
     Parasitic::CapVc,
+    Parasitic::ResVc,
     Parasitic::SwitchCap,
     Parasitic::InputCap,
     Parasitic::MirrorRout,
@@ -47,6 +50,7 @@ impl Parasitic {
     pub fn name(self) -> &'static str {
         match self {
             Parasitic::CapVc => "cap_vc",
+            Parasitic::ResVc => "res_vc",
             Parasitic::SwitchCap => "switch_cap",
             Parasitic::InputCap => "input_cap",
             Parasitic::MirrorRout => "mirror_rout",
@@ -63,6 +67,7 @@ impl Parasitic {
     pub fn label(self) -> &'static str {
         match self {
             Parasitic::CapVc => "capacitor voltage coefficient",
+            Parasitic::ResVc => "resistor voltage coefficient",
             Parasitic::SwitchCap => "switch junction capacitance",
             Parasitic::InputCap => "comparator input capacitance",
             Parasitic::MirrorRout => "mirror output resistance",

@@ -37,8 +37,9 @@ fn rc_mode(o: &Osc) -> bool {
     o.kind() == Kind::Schmitt && o.params.has("r")
 }
 
+/// The timing resistor at zero volts, Ω.
 fn resistance(o: &Osc) -> f64 {
-    o.params.get("r") * o.env.tc_factor(o.params.get("tc_r"))
+    o.parts.res.as_ref().map_or(f64::NAN, |r| r.r(0.0, o.env.temp_c))
 }
 
 pub fn ideal(o: &Osc) -> Result<f64, String> {
@@ -66,10 +67,9 @@ pub fn cycle(v: &View) -> Result<Cycle, String> {
     check_levels(o, lo, hi)?;
     let vdd = v.env.vdd;
     let rc = rc_mode(o);
-    let r = resistance(o);
     let c = |x: f64| v.cap(x) + v.node(x) + v.cin_hi(x) + v.cin_lo(x);
-    let up = |x: f64| if rc { (vdd - x) / r } else { v.i_ch(x) };
-    let dn = |x: f64| if rc { -x / r } else { -v.i_dis(x) };
+    let up = |x: f64| if rc { (vdd - x) / v.res(vdd - x) } else { v.i_ch(x) };
+    let dn = |x: f64| if rc { -x / v.res(x) } else { -v.i_dis(x) };
     let latch = o.kind() == Kind::Window;
     let d_hi = |s: f64| v.delay_hi(s) + v.chain(latch);
     let d_lo = |s: f64| v.delay_lo(s) + v.chain(latch);
