@@ -47,3 +47,36 @@ fn script_errors_name_the_key() {
         assert!(!ok && err.contains(msg), "{code}: {err}");
     }
 }
+
+#[test]
+fn every_registered_timing_function_has_docs() {
+    use std::collections::BTreeSet;
+    use tickwork::engine::{sandbox::Sandbox, session::{Session, Shared}, timing_api};
+    let dir = tempfile::tempdir().unwrap();
+    let s = Shared::new(Session::new("t", Sandbox::new(dir.path(), dir.path(), dir.path()).unwrap()));
+    let mut e = rhai::Engine::new_raw();
+    timing_api::register(&mut e, &s);
+    let registered: BTreeSet<String> = e
+        .gen_fn_signatures(false)
+        .iter()
+        .map(|sig| sig.split('(').next().unwrap_or("").trim().to_string())
+        .filter(|n| n != "to_string" && n != "to_debug")
+        .collect();
+    let documented: BTreeSet<String> = timing_api::DOCS.iter().map(|d| d.name.to_string()).collect();
+    assert_eq!(registered, documented);
+    for d in timing_api::DOCS {
+        assert!(d.sig.contains(d.name) && !d.summary.is_empty(), "{d:?}");
+    }
+}
+
+#[test]
+fn example_script_runs() {
+    // scripts/02-period-budget.rhai with the report's table/plot/metric stubbed by script
+    // functions (they live on the report branch): checks the script's own logic and that every
+    // timing call in it succeeds.
+    let text = std::fs::read_to_string(concat!(env!("CARGO_MANIFEST_DIR"), "/scripts/02-period-budget.rhai")).unwrap();
+    let stubs = "\nfn table(a, b) { }\nfn plot(m) { m.title }\nfn metric(n, v, u) { }\n";
+    let (ok, out, err) = run(&format!("{text}{stubs}"));
+    assert!(ok, "{err}");
+    assert!(out.contains("window: ideal period = 250 ns") && out.contains("ping-pong: ideal period = 250 ns"), "{out}");
+}

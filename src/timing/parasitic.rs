@@ -12,7 +12,8 @@ pub enum Parasitic {
     SwitchCap,
     /// Input capacitance of the comparator / trigger / inverter on the node (c_in).
     InputCap,
-    /// Output resistance of the current mirrors (r_out, v_ds_ref).
+    /// Output resistance of the current mirrors (r_out, v_ds_ref); with process mirrors, their
+    /// whole output characteristic (Vds-dependent error, compliance).
     MirrorRout,
     /// Low-side versus high-side current mismatch (i_mismatch).
     Mismatch,
@@ -70,7 +71,7 @@ impl Parasitic {
             Parasitic::ResVc => "resistor voltage coefficient",
             Parasitic::SwitchCap => "switch junction capacitance",
             Parasitic::InputCap => "comparator input capacitance",
-            Parasitic::MirrorRout => "mirror output resistance",
+            Parasitic::MirrorRout => "mirror output resistance and Vds error",
             Parasitic::Mismatch => "high/low current mismatch",
             Parasitic::CapMismatch => "capacitor mismatch",
             Parasitic::Offset => "comparator offset",
