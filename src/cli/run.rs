@@ -8,6 +8,9 @@ use crate::engine::{self, sandbox::Sandbox, script::run_source, session::{Sessio
 use crate::report;
 
 #[derive(Args, Debug, Clone)]
+#[command(after_help = "Each script writes OUT/<script-name>/report.md, results.json and its figures (fig-NN-<title>.svg).\n\
+Exit codes: 0 all scripts ran and every metric met its spec; 1 a script failed (its previous report is left as it was);\n\
+2 bad command line; 3 every script ran but a metric failed its spec.")]
 pub struct RunArgs {
     /// Script files (.rhai)
     #[arg(required = true)]
@@ -27,6 +30,10 @@ pub struct RunArgs {
     /// Project root: scripts read files only below it (default: the current folder)
     #[arg(long, default_value = ".")]
     pub root: PathBuf,
+    /// Write the UTC time of the run into the report's provenance (off by default, so that
+    /// re-running an unchanged script gives byte-identical files)
+    #[arg(long)]
+    pub stamp: bool,
 }
 
 /// Parse the `--set` list into a map; an entry without `=` is a usage error.
@@ -58,12 +65,13 @@ pub fn run(a: &RunArgs) -> i32 {
             return super::EXIT_USAGE;
         }
     };
-    let mut worst = 0;
-    for file in &a.files {
-        let code = run_one(a, file, &sets);
-        worst = worst.max(code);
+    // A script error (1) outranks a failed spec (3): CI must see that a script did not run.
+    let codes: Vec<i32> = a.files.iter().map(|file| run_one(a, file, &sets)).collect();
+    if codes.contains(&super::EXIT_SCRIPT_ERROR) {
+        super::EXIT_SCRIPT_ERROR
+    } else {
+        codes.into_iter().max().unwrap_or(0)
     }
-    worst
 }
 
 fn run_one(a: &RunArgs, file: &Path, sets: &BTreeMap<String, String>) -> i32 {
@@ -96,9 +104,38 @@ fn run_one(a: &RunArgs, file: &Path, sets: &BTreeMap<String, String>) -> i32 {
         return super::EXIT_SCRIPT_ERROR;
     }
     let g = shared.lock();
-    if let Err(e) = report::output::write(&g.report, &out_dir) {
-        eprintln!("{shown}: cannot write the report into {}: {e}", out_dir.display());
+    let script_path = file
+        .canonicalize()
+        .ok()
+        .and_then(|c| c.strip_prefix(&g.sandbox.root).ok().map(|r| r.display().to_string()))
+        .unwrap_or_else(|| shown.clone());
+    let prov = report::Provenance {
+        tool: report::Provenance::tool(),
+        script: Some(script_path),
+        script_sha256: Some(report::provenance::sha256_hex(text.as_bytes())),
+        inputs: engine::report_api::included_files(&g, Some(&shown)),
+        overrides: g.overrides.clone(),
+        seed: g.seed,
+        stamp: a.stamp.then(report::provenance::utc_now),
+    };
+    if let Err(e) = report::output::write(&g.report, &prov, &out_dir) {
+        eprintln!(
+            "{shown}: cannot write the report into {}: {e}; report.md there, if any, is the previous run's",
+            out_dir.display()
+        );
         return super::EXIT_SCRIPT_ERROR;
+    }
+    let failed = g.report.failed();
+    if !failed.is_empty() {
+        for m in &failed {
+            eprintln!(
+                "{shown}: metric '{}' = {} fails its spec {}",
+                m.name,
+                report::format::value(m.value, &m.unit, 4),
+                m.spec.text(&m.unit)
+            );
+        }
+        return super::EXIT_SPEC_FAILED;
     }
     0
 }

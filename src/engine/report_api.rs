@@ -1,56 +1,432 @@
-//! Registration of the report functions: `show` (and, through the print hook, `print`).
-use rhai::{Dynamic, Engine, EvalAltResult};
+//! Registration of the report functions: `show`, `table`, `plot`, `metric`, `save_report`
+//! (and, through the print hook, `print`). Script values become plain report types here.
+use rhai::{Array, Dynamic, Engine, EvalAltResult, Map};
 
 use super::docs::Doc;
 use super::session::Shared;
-use crate::num::si::eng;
+use super::value::to_f64;
 use crate::num::Series;
-use crate::report::Item;
+use crate::report::plot::{self, Kind, Plot};
+use crate::report::{format, Cell, Column, Figure, Item, Metric, Provenance, Spec, Table};
 
 type R<T> = Result<T, Box<EvalAltResult>>;
 
 pub const DOCS: &[Doc] = &[
-    Doc { name: "show", sig: "show(label: string, value)", summary: "a result line in the report and on the terminal" },
-    Doc { name: "show", sig: "show(label: string, value: float, unit: string)", summary: "a result line, engineering-formatted with its unit" },
+    Doc { name: "show", sig: "show(label: string, value)", summary: "a result line in the report and on the terminal; a Series shows as n, min, mean, max" },
+    Doc { name: "show", sig: "show(label: string, value: float|Series, unit: string)", summary: "a result line, engineering-formatted with its unit: show(\"period\", 2.5e-7, \"s\") → 250 ns" },
+    Doc { name: "show", sig: "show(label: string, value, unit: string, #{full: bool, digits: int})", summary: "full: true lists every element of a Series; digits: 1..17 significant digits (default 3)" },
+    Doc { name: "show", sig: "show(label: string, value, #{full: bool, digits: int})", summary: "the same options for a value without a unit" },
+    Doc { name: "table", sig: "table(data: map of Series/arrays | array of maps)", summary: "a Markdown table; columns of a map come in name order, rows of an array of maps are its elements" },
+    Doc { name: "table", sig: "table(data, #{columns: [names], units: #{name: unit}, digits: int})", summary: "columns: which columns in which order; units: unit of each column, shown in its header (cells get SI prefixes); digits: significant digits (default 3)" },
+    Doc { name: "plot", sig: "plot(#{title, x, y, kind, names, x_label, y_label, x_unit, y_unit, log_x, log_y, bins, stats, labels, waterfall, total_label}) -> string", summary: "an SVG chart beside the report (fig-NN-<title>.svg), linked from it; kinds line (default), scatter, step, histogram (samples in x; bins; stats: true marks the mean and gives mean and σ in the legend), bar (labels + y; waterfall: true stacks them and adds a total); y may be an array of Series with names for the legend; units go in x_unit/y_unit (ticks get SI prefixes); returns the file name" },
+    Doc { name: "metric", sig: "metric(name: string, value: float, unit: string)", summary: "a named figure for results.json and the metrics history; name: lower-case a-z first, then a-z, 0-9, '_' or '.' (64 at most)" },
+    Doc { name: "metric", sig: "metric(name: string, value: float, unit: string, #{min: float, max: float})", summary: "a metric with a spec window (ends included, either may be left out); a failed spec is marked in the report and the run exits with code 3" },
+    Doc { name: "save_report", sig: "save_report(dir: string) -> string", summary: "write what the session showed (report.md, results.json, figures) into dir inside the output folder; returns the folder" },
 ];
 
-/// Text of a shown value.
-fn value_text(v: &Dynamic, unit: &str) -> String {
-    if let Some(x) = v.clone().try_cast::<f64>() {
-        eng(x, unit, 3)
-    } else if let Some(i) = v.clone().try_cast::<i64>() {
-        if unit.is_empty() { i.to_string() } else { eng(i as f64, unit, 3) }
-    } else if let Some(s) = v.clone().try_cast::<Series>() {
-        if s.is_empty() {
-            "empty series".into()
-        } else {
-            format!("n = {}, min {}, mean {}, max {}", s.len(), eng(s.min(), unit, 3), eng(s.mean(), unit, 3), eng(s.max(), unit, 3))
-        }
-    } else if v.is_string() {
-        v.clone().into_string().unwrap_or_default()
-    } else {
-        v.to_string()
+fn err<T>(msg: impl Into<String>) -> R<T> {
+    Err(msg.into().into())
+}
+
+/// Reject option keys other than `allowed`, naming them all.
+fn check_keys(what: &str, m: &Map, allowed: &[&str]) -> R<()> {
+    if let Some(k) = m.keys().find(|k| !allowed.contains(&k.as_str())) {
+        return err(format!("{what}: unknown key '{k}'; the keys are {}", allowed.join(", ")));
+    }
+    Ok(())
+}
+
+fn opt_str(what: &str, m: &Map, key: &str) -> R<String> {
+    match m.get(key) {
+        None => Ok(String::new()),
+        Some(v) if v.is_string() => Ok(v.clone().into_string().unwrap_or_default()),
+        Some(v) => err(format!("{what}: key '{key}' must be a string, found {}", v.type_name())),
     }
 }
 
-pub fn register(engine: &mut Engine, shared: &Shared) {
-    let s = shared.clone();
-    engine.register_fn("show", move |label: &str, v: Dynamic| -> R<()> {
-        show(&s, label, &v, "");
-        Ok(())
-    });
-    let s = shared.clone();
-    engine.register_fn("show", move |label: &str, v: Dynamic, unit: &str| -> R<()> {
-        show(&s, label, &v, unit);
-        Ok(())
-    });
+fn opt_bool(what: &str, m: &Map, key: &str) -> R<bool> {
+    match m.get(key) {
+        None => Ok(false),
+        Some(v) => v.as_bool().map_err(|t| format!("{what}: key '{key}' must be true or false, found {t}").into()),
+    }
 }
 
-fn show(s: &Shared, label: &str, v: &Dynamic, unit: &str) {
-    let value = value_text(v, unit);
+fn opt_digits(what: &str, m: &Map) -> R<usize> {
+    match m.get("digits") {
+        None => Ok(3),
+        Some(v) => match v.as_int() {
+            Ok(d) if (1..=17).contains(&d) => Ok(d as usize),
+            _ => err(format!("{what}: key 'digits' must be an integer in 1..=17, found {v}")),
+        },
+    }
+}
+
+/// A Series from a Series or an array of numbers; None for anything else.
+fn as_series(v: &Dynamic) -> Option<Result<Series, String>> {
+    if let Some(s) = v.clone().try_cast::<Series>() {
+        return Some(Ok(s));
+    }
+    let a = v.clone().try_cast::<Array>()?;
+    Some(
+        a.iter()
+            .enumerate()
+            .map(|(k, x)| to_f64(x).map_err(|_| format!("element {k} is a {}, not a number", x.type_name())))
+            .collect(),
+    )
+}
+
+/// Text of a shown value.
+fn value_text(v: &Dynamic, unit: &str, full: bool, digits: usize) -> Result<String, String> {
+    if let Some(x) = v.clone().try_cast::<f64>() {
+        return Ok(format::value(x, unit, digits));
+    }
+    if let Some(i) = v.clone().try_cast::<i64>() {
+        return Ok(if unit.is_empty() { i.to_string() } else { format::value(i as f64, unit, digits) });
+    }
+    let is_numbers = v.is::<Series>() || v.clone().try_cast::<Array>().is_some_and(|a| a.iter().all(|x| x.is_float() || x.is_int()));
+    if is_numbers {
+        let s = as_series(v).unwrap_or(Ok(Series::default()))?;
+        if s.is_empty() {
+            return Ok("empty series".into());
+        }
+        if full {
+            let all: Vec<String> = s.as_slice().iter().map(|x| format::value(*x, unit, digits)).collect();
+            return Ok(format!("[{}]", all.join(", ")));
+        }
+        return Ok(format!(
+            "n = {}, min {}, mean {}, max {}",
+            s.len(),
+            format::value(s.min(), unit, digits),
+            format::value(s.mean(), unit, digits),
+            format::value(s.max(), unit, digits)
+        ));
+    }
+    if v.is_string() {
+        let t = v.clone().into_string().unwrap_or_default();
+        return Ok(if unit.is_empty() { t } else { format!("{t} {unit}") });
+    }
+    Ok(v.to_string())
+}
+
+pub fn register(engine: &mut Engine, shared: &Shared) {
+    // The plot font is registered when the engine starts; a failure shows at the first plot.
+    let _ = plot::font::ensure();
+    let s = shared.clone();
+    engine.register_fn("show", move |label: &str, v: Dynamic| -> R<()> { show(&s, label, &v, "", &Map::new()) });
+    let s = shared.clone();
+    engine.register_fn("show", move |label: &str, v: Dynamic, unit: &str| -> R<()> { show(&s, label, &v, unit, &Map::new()) });
+    let s = shared.clone();
+    engine.register_fn("show", move |label: &str, v: Dynamic, opts: Map| -> R<()> { show(&s, label, &v, "", &opts) });
+    let s = shared.clone();
+    engine.register_fn("show", move |label: &str, v: Dynamic, unit: &str, opts: Map| -> R<()> { show(&s, label, &v, unit, &opts) });
+
+    let s = shared.clone();
+    engine.register_fn("table", move |data: Dynamic| -> R<()> { table(&s, &data, &Map::new()) });
+    let s = shared.clone();
+    engine.register_fn("table", move |data: Dynamic, opts: Map| -> R<()> { table(&s, &data, &opts) });
+
+    let s = shared.clone();
+    engine.register_fn("plot", move |m: Map| -> R<String> { plot_fn(&s, &m) });
+
+    let s = shared.clone();
+    engine.register_fn("metric", move |name: &str, v: Dynamic, unit: &str| -> R<()> { metric(&s, name, &v, unit, &Map::new()) });
+    let s = shared.clone();
+    engine.register_fn("metric", move |name: &str, v: Dynamic, unit: &str, spec: Map| -> R<()> { metric(&s, name, &v, unit, &spec) });
+
+    let s = shared.clone();
+    engine.register_fn("save_report", move |dir: &str| -> R<String> { save_report(&s, dir) });
+}
+
+fn show(s: &Shared, label: &str, v: &Dynamic, unit: &str, opts: &Map) -> R<()> {
+    check_keys("show", opts, &["full", "digits"])?;
+    let full = opt_bool("show", opts, "full")?;
+    let digits = opt_digits("show", opts)?;
+    let value = value_text(v, unit, full, digits).map_err(|e| format!("show '{label}': {e}"))?;
     let mut g = s.lock();
     if g.echo {
         super::term::out(&format!("{label} = {value}"));
     }
     g.push(Item::Show { label: label.to_string(), value });
+    Ok(())
+}
+
+/// Cells of one column from a Series or an array of numbers, strings and booleans.
+fn cells(name: &str, v: &Dynamic) -> R<Vec<Cell>> {
+    if let Some(s) = v.clone().try_cast::<Series>() {
+        return Ok(s.as_slice().iter().map(|x| Cell::Num(*x)).collect());
+    }
+    let Some(a) = v.clone().try_cast::<Array>() else {
+        return err(format!("table: column '{name}' must be a Series or an array, found {}", v.type_name()));
+    };
+    a.iter().map(|x| cell(x).map_err(|t| format!("table: column '{name}' holds a {t}; cells are numbers, strings or booleans").into())).collect()
+}
+
+fn cell(x: &Dynamic) -> Result<Cell, String> {
+    if let Some(f) = x.clone().try_cast::<f64>() {
+        Ok(Cell::Num(f))
+    } else if let Some(i) = x.clone().try_cast::<i64>() {
+        Ok(Cell::Int(i))
+    } else if x.is_string() || x.is_bool() || x.is_char() {
+        Ok(Cell::Text(x.to_string()))
+    } else {
+        Err(x.type_name().to_string())
+    }
+}
+
+fn table(s: &Shared, data: &Dynamic, opts: &Map) -> R<()> {
+    check_keys("table", opts, &["columns", "units", "digits"])?;
+    let digits = opt_digits("table", opts)?;
+    let units: Map = match opts.get("units") {
+        None => Map::new(),
+        Some(u) => u.clone().try_cast::<Map>().ok_or_else(|| format!("table: key 'units' must be a map of column name to unit, found {}", u.type_name()))?,
+    };
+    // Columns by name, in name order (a script map is sorted by key) or as the rows give them.
+    let mut cols: Vec<(String, Vec<Cell>)> = Vec::new();
+    if let Some(m) = data.clone().try_cast::<Map>() {
+        for (k, v) in &m {
+            cols.push((k.to_string(), cells(k, v)?));
+        }
+    } else if let Some(rows) = data.clone().try_cast::<Array>() {
+        let mut names: Vec<String> = Vec::new();
+        for (r, row) in rows.iter().enumerate() {
+            let Some(m) = row.clone().try_cast::<Map>() else {
+                return err(format!("table: row {r} is a {}; an array table holds one map per row", row.type_name()));
+            };
+            if r == 0 {
+                names = m.keys().map(|k| k.to_string()).collect();
+                cols = names.iter().map(|n| (n.clone(), vec![])).collect();
+            }
+            if m.len() != names.len() || m.keys().any(|k| !names.contains(&k.to_string())) {
+                let got: Vec<String> = m.keys().map(|k| k.to_string()).collect();
+                return err(format!("table: row {r} has the keys {}; row 0 has {}", got.join(", "), names.join(", ")));
+            }
+            for (name, col) in cols.iter_mut() {
+                let v = &m[name.as_str()];
+                col.push(cell(v).map_err(|t| format!("table: row {r}, key '{name}' holds a {t}; cells are numbers, strings or booleans"))?);
+            }
+        }
+    } else {
+        return err(format!("table: data must be a map of columns or an array of row maps, found {}", data.type_name()));
+    }
+    if let Some(order) = opts.get("columns") {
+        let Some(order) = order.clone().try_cast::<Array>() else {
+            return err("table: key 'columns' must be an array of column names");
+        };
+        let mut picked = Vec::new();
+        for o in &order {
+            let name = o.to_string();
+            let Some(k) = cols.iter().position(|(n, _)| *n == name) else {
+                let have: Vec<&str> = cols.iter().map(|(n, _)| n.as_str()).collect();
+                return err(format!("table: 'columns' names '{name}', which the data does not have; it has {}", have.join(", ")));
+            };
+            picked.push(cols[k].clone());
+        }
+        cols = picked;
+    }
+    for k in units.keys() {
+        if !cols.iter().any(|(n, _)| n == k.as_str()) {
+            return err(format!("table: 'units' names column '{k}', which the table does not have"));
+        }
+    }
+    let columns: Vec<Column> = cols
+        .into_iter()
+        .map(|(name, cells)| {
+            let unit = units.get(name.as_str()).map(|u| u.to_string()).unwrap_or_default();
+            Column { name, unit, cells }
+        })
+        .collect();
+    let t = Table::from_columns(&columns, digits).map_err(|e| format!("table: {e}"))?;
+    let mut g = s.lock();
+    if g.echo {
+        super::term::out(t.markdown().trim_end());
+    }
+    g.push(Item::Table(t));
+    Ok(())
+}
+
+/// One series or several from a plot key: a Series, an array of numbers, or an array of those.
+fn series_list(key: &str, v: &Dynamic) -> R<Vec<Vec<f64>>> {
+    if let Some(a) = v.clone().try_cast::<Array>()
+        && !a.is_empty()
+        && a.iter().all(|x| x.is::<Series>() || x.is::<Array>())
+    {
+        return a
+            .iter()
+            .enumerate()
+            .map(|(k, x)| match as_series(x) {
+                Some(Ok(s)) => Ok(s.to_vec()),
+                Some(Err(e)) => err(format!("plot: series {} of '{key}': {e}", k + 1)),
+                None => err(format!("plot: series {} of '{key}' is not numbers", k + 1)),
+            })
+            .collect();
+    }
+    match as_series(v) {
+        Some(Ok(s)) => Ok(vec![s.to_vec()]),
+        Some(Err(e)) => err(format!("plot: key '{key}': {e}")),
+        None => err(format!("plot: key '{key}' must be a Series, an array of numbers or an array of Series, found {}", v.type_name())),
+    }
+}
+
+fn strings(key: &str, v: &Dynamic) -> R<Vec<String>> {
+    let Some(a) = v.clone().try_cast::<Array>() else {
+        return err(format!("plot: key '{key}' must be an array of strings, found {}", v.type_name()));
+    };
+    Ok(a.iter().map(|x| x.to_string()).collect())
+}
+
+const PLOT_KEYS: &[&str] = &[
+    "title", "kind", "x", "y", "names", "labels", "x_label", "y_label", "x_unit", "y_unit", "log_x", "log_y", "bins", "waterfall", "total_label", "stats",
+];
+
+/// A [`Plot`] from the script's map; errors name the key.
+pub fn plot_from_map(m: &Map) -> R<Plot> {
+    check_keys("plot", m, PLOT_KEYS)?;
+    let kind = match m.get("kind") {
+        None => Kind::Line,
+        Some(k) => Kind::parse(&k.to_string()).map_err(|e| format!("plot: {e}"))?,
+    };
+    let mut p = Plot::new(kind);
+    p.title = opt_str("plot", m, "title")?;
+    p.x_label = opt_str("plot", m, "x_label")?;
+    p.y_label = opt_str("plot", m, "y_label")?;
+    p.x_unit = opt_str("plot", m, "x_unit")?;
+    p.y_unit = opt_str("plot", m, "y_unit")?;
+    p.log_x = opt_bool("plot", m, "log_x")?;
+    p.log_y = opt_bool("plot", m, "log_y")?;
+    p.waterfall = opt_bool("plot", m, "waterfall")?;
+    p.stats = opt_bool("plot", m, "stats")?;
+    if p.stats && kind != Kind::Histogram {
+        return err("plot: 'stats' is for histograms (kind: \"histogram\")");
+    }
+    if m.contains_key("total_label") {
+        p.total_label = opt_str("plot", m, "total_label")?;
+    }
+    if let Some(b) = m.get("bins") {
+        p.bins = Some(b.as_int().ok().filter(|b| *b > 0).ok_or_else(|| format!("plot: key 'bins' must be a positive integer, found {b}"))? as usize);
+    }
+    if let Some(n) = m.get("names") {
+        p.names = if n.is_string() { vec![n.to_string()] } else { strings("names", n)? };
+    }
+    if let Some(l) = m.get("labels") {
+        p.labels = strings("labels", l)?;
+    }
+    match kind {
+        Kind::Histogram => {
+            if m.contains_key("y") {
+                return err("plot: a histogram takes its samples in 'x', not 'y'");
+            }
+            if let Some(x) = m.get("x") {
+                p.ys = series_list("x", x)?;
+            }
+        }
+        Kind::Bar => {
+            if m.contains_key("x") {
+                return err("plot: a bar chart takes 'labels' and 'y', not 'x'");
+            }
+            if let Some(y) = m.get("y") {
+                p.ys = series_list("y", y)?;
+            }
+        }
+        _ => {
+            if let Some(x) = m.get("x") {
+                let xs = series_list("x", x)?;
+                if xs.len() != 1 {
+                    return err("plot: key 'x' must be one Series; give several curves in 'y'");
+                }
+                p.x = xs.into_iter().next().unwrap_or_default();
+            }
+            if let Some(y) = m.get("y") {
+                p.ys = series_list("y", y)?;
+            }
+        }
+    }
+    p.check()?;
+    Ok(p)
+}
+
+fn plot_fn(s: &Shared, m: &Map) -> R<String> {
+    let p = plot_from_map(m)?;
+    let svg = plot::svg::render(&p).map_err(|e| if e.starts_with("plot") { e } else { format!("plot '{}': {e}", p.title) })?;
+    let mut g = s.lock();
+    let n = g.report.figures().count() + 1;
+    let file = format!("fig-{n:02}-{}.svg", plot::slug(&p.title));
+    if g.echo {
+        super::term::out(&format!("figure {n}: {} ({file})", if p.title.is_empty() { "untitled" } else { &p.title }));
+    }
+    g.push(Item::Figure(Figure { number: n, file: file.clone(), title: p.title, svg }));
+    Ok(file)
+}
+
+fn metric(s: &Shared, name: &str, v: &Dynamic, unit: &str, spec: &Map) -> R<()> {
+    check_keys(&format!("metric '{name}'"), spec, &["min", "max"])?;
+    let value = to_f64(v).map_err(|_| format!("metric '{name}': the value must be a number, found {}", v.type_name()))?;
+    let bound = |k: &str| -> R<Option<f64>> {
+        spec.get(k)
+            .map(|x| to_f64(x).map_err(|_| format!("metric '{name}': spec key '{k}' must be a number, found {}", x.type_name()).into()))
+            .transpose()
+    };
+    let m = Metric::new(name, value, unit, Spec { min: bound("min")?, max: bound("max")? })?;
+    let mut g = s.lock();
+    if g.report.metrics().any(|x| x.name == m.name) {
+        return err(format!("metric '{name}' is recorded twice; each metric name may be used once per run"));
+    }
+    if g.echo {
+        let verdict = match m.pass() {
+            None => String::new(),
+            Some(p) => format!(" (spec {}: {})", m.spec.text(unit), if p { "pass" } else { "FAIL" }),
+        };
+        super::term::out(&format!("metric {name} = {}{verdict}", format::value(value, unit, 4)));
+    }
+    g.push(Item::Metric(m));
+    Ok(())
+}
+
+/// Every file the run read, for the provenance: data files in the order they were read, then
+/// the script modules it imported from the project (by path). Built-in `stdlib/` modules are
+/// part of the tool version and the REPL's own entries are not files, so neither is listed.
+pub fn included_files(g: &super::session::Session, script: Option<&str>) -> Vec<(String, String)> {
+    let mut v = g.inputs.clone();
+    let mut modules: Vec<(String, String)> = g
+        .sources
+        .files
+        .iter()
+        .filter(|(name, _)| Some(name.as_str()) != script && !name.starts_with("repl["))
+        .filter(|(name, (text, _))| {
+            let builtin = name
+                .strip_prefix("stdlib/")
+                .and_then(|n| n.strip_suffix(".rhai"))
+                .and_then(super::stdlib::get)
+                .is_some_and(|src| src == text);
+            !builtin
+        })
+        .map(|(name, (text, _))| (name.clone(), crate::report::provenance::sha256_hex(text.as_bytes())))
+        .collect();
+    modules.sort();
+    for m in modules {
+        if !v.iter().any(|(p, _)| *p == m.0) {
+            v.push(m);
+        }
+    }
+    v
+}
+
+fn save_report(s: &Shared, dir: &str) -> R<String> {
+    let g = s.lock();
+    let path = g.sandbox.writable(dir).map_err(|e| format!("save_report: {e}"))?;
+    let prov = Provenance {
+        tool: Provenance::tool(),
+        script: None,
+        script_sha256: None,
+        inputs: included_files(&g, None),
+        overrides: g.overrides.clone(),
+        seed: g.seed,
+        stamp: None,
+    };
+    crate::report::output::write(&g.report, &prov, &path)
+        .map_err(|e| format!("save_report: cannot write into {}: {e}", path.display()))?;
+    let shown = path.display().to_string();
+    if g.echo {
+        super::term::out(&format!("report written to {shown}/report.md"));
+    }
+    Ok(shown)
 }
