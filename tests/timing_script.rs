@@ -71,12 +71,16 @@ fn every_registered_timing_function_has_docs() {
 
 #[test]
 fn example_script_runs() {
-    // scripts/02-period-budget.rhai with the report's table/plot/metric stubbed by script
-    // functions (they live on the report branch): checks the script's own logic and that every
-    // timing call in it succeeds.
+    // scripts/02-period-budget.rhai end to end: every timing call succeeds, the report has its
+    // tables and both waterfall figures.
     let text = std::fs::read_to_string(concat!(env!("CARGO_MANIFEST_DIR"), "/scripts/02-period-budget.rhai")).unwrap();
-    let stubs = "\nfn table(a, b) { }\nfn plot(m) { m.title }\nfn metric(n, v, u) { }\n";
-    let (ok, out, err) = run(&format!("{text}{stubs}"));
-    assert!(ok, "{err}");
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::write(dir.path().join("t.rhai"), text).unwrap();
+    let o = Command::new(env!("CARGO_BIN_EXE_tickwork")).args(["run", "t.rhai", "--out", "out"]).current_dir(dir.path()).output().unwrap();
+    let (out, err) = (String::from_utf8_lossy(&o.stdout), String::from_utf8_lossy(&o.stderr));
+    assert!(o.status.success(), "{err}");
     assert!(out.contains("window: ideal period = 250 ns") && out.contains("ping-pong: ideal period = 250 ns"), "{out}");
+    let report = std::fs::read_to_string(dir.path().join("out/t/report.md")).unwrap();
+    assert!(report.contains("| parasitic | alone (s)") && report.contains("interaction remainder"), "{report}");
+    assert_eq!(report.matches(".svg)").count(), 2, "{report}");
 }
