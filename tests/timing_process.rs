@@ -114,3 +114,17 @@ fn inverter_threshold_and_resistor_come_from_the_process() {
     let t_ss = formula(&ss, 100e3 * ss.res_scale, 1e-12 * ss.cap_scale);
     assert!((o.at(None, None, Some("ss")).unwrap().ideal_period().unwrap() / t_ss - 1.0).abs() < 1e-12);
 }
+
+#[test]
+fn process_contributions_have_their_physical_sign() {
+    use tickwork::timing::Parasitic::*;
+    // Added node capacitance and every delay lengthen the period (charge balance; the delay
+    // chain only adds time).
+    for o in all() {
+        for r in budget(&o).unwrap().rows {
+            if matches!(r.parasitic, SwitchCap | InputCap | CmpDelay | LogicDelay | SwitchDelay) {
+                assert!(r.alone > 0.0, "{:?} {:?}: {}", o.kind(), r.parasitic, r.alone);
+            }
+        }
+    }
+}

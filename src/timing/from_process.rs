@@ -124,8 +124,8 @@ impl Origin for ProcessOrigin {
             Kind::PingPong => (SwitchSet(vec![nsw.clone(), psw]), nsw.with_on(true).ron(v_lo)),
             _ => (SwitchSet(vec![nsw, psw]), 0.0),
         };
-        if kind == Kind::Reset && !(p.get("t_reset") > 0.0) {
-            return Err(format!("osc_from(\"reset\"): key 't_reset' (the reset pulse, s) is required: a process reset switch has a finite on-resistance"));
+        if kind == Kind::Reset && p.get("t_reset") <= 0.0 {
+            return Err("osc_from(\"reset\"): key 't_reset' (the reset pulse, s) is required: a process reset switch has a finite on-resistance".into());
         }
         let v_swing = if p.has("cmp_vsw") { p.get("cmp_vsw") } else { 0.5 * pr.vdd };
         let pair = |v_cm: f64, vos: &str| -> Result<Arc<dyn ComparatorPart>, String> {

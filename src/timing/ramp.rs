@@ -17,7 +17,7 @@ pub fn ramp_time(c: &dyn Fn(f64) -> f64, i: &dyn Fn(f64) -> f64, v0: f64, v1: f6
     for k in 0..=N {
         let v = v0 + (v1 - v0) * k as f64 / N as f64;
         let (ci, ii) = (c(v), i(v));
-        if !(ii * dir > 0.0) {
+        if ii.is_nan() || ii * dir <= 0.0 {
             return Err(format!(
                 "the ramp from {v0:.4} V to {v1:.4} V stops: the current is {ii:.3e} A at {v:.4} V, so the node never reaches the threshold"
             ));

@@ -51,7 +51,7 @@ pub fn ideal(o: &Osc) -> Result<f64, String> {
 
 fn check_levels(o: &Osc, lo: f64, hi: f64) -> Result<(), String> {
     let kind = o.kind().name();
-    if !(lo < hi) {
+    if lo.is_nan() || hi.is_nan() || lo >= hi {
         return Err(format!("osc(\"{kind}\"): the low threshold {lo:.4} V is not below the high threshold {hi:.4} V"));
     }
     if rc_mode(o) && !(lo > 0.0 && hi < o.env.vdd) {
