@@ -75,3 +75,16 @@ fn figures_are_numbered_in_order() {
     assert_eq!(files, ["fig-01-a-b.svg", "fig-02-plot.svg"]);
     assert!(matches!(items.last(), Some(Item::Text(t)) if t == "fig-02-plot.svg"));
 }
+
+#[test]
+fn included_files_list_data_read_through_the_session() {
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::create_dir(dir.path().join("data")).unwrap();
+    std::fs::write(dir.path().join("data/sim.csv"), "abc").unwrap();
+    let sandbox = Sandbox::new(dir.path(), &dir.path().join("out"), dir.path()).unwrap();
+    let mut s = Session::new("t", sandbox);
+    s.read_input("data/sim.csv").unwrap();
+    let files = tickwork::engine::report_api::included_files(&s, None);
+    // FIPS 180-2, appendix B.1: SHA-256("abc").
+    assert_eq!(files, [("data/sim.csv".to_string(), "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad".to_string())]);
+}

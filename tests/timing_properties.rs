@@ -89,6 +89,9 @@ fn each_contribution_has_its_physical_sign() {
     assert!((alone(&r, Reset) - 10e-9).abs() < 1e-18);
     let pp = osc(Kind::PingPong, &[("c", 1e-12), ("i", 1e-6), ("v_hi", 1.0), ("r_reset", 300e3)]);
     assert!(alone(&pp, Reset) < 0.0);
+    // A resistor that grows with the voltage across it slows the RC ramps.
+    let rc = osc(Kind::RcInverter, &[("c", 1e-12), ("r", 1e5), ("r_vc", 0.02)]);
+    assert!(alone(&rc, ResVc) > 0.0);
     // Ping-pong: a larger second capacitor lengthens its ramp.
     let pp = osc(Kind::PingPong, &[("c", 1e-12), ("i", 1e-6), ("v_hi", 1.0), ("c_mismatch", 0.02)]);
     assert!((alone(&pp, CapMismatch) - 0.02 * 1e-6).abs() < 1e-15);

@@ -134,3 +134,15 @@ fn reset_pulse_through_a_resistor() {
     close(cy.phases[0].v_start, start, 1e-9);
     close(cy.period, c * (vref - start) / i + tr, 1e-9);
 }
+
+#[test]
+fn inverter_threshold_from_devices() {
+    // Rabaey, Digital Integrated Circuits, ch. 5: V_M = (V_TN + r(V_DD − |V_TP|))/(1 + r),
+    // r = √(βp/βn); with V_TN = 0.4, |V_TP| = 0.5, βp/βn = 0.5, V_DD = 1.8: V_M = 1.3192/1.7071 ≈ 0.7728 V (worked by hand).
+    let vm = (0.4 + 0.5f64.sqrt() * (1.8 - 0.5)) / (1.0 + 0.5f64.sqrt());
+    assert!((vm - 0.7728).abs() < 1e-4);
+    let (r, c) = (100e3, 1e-12);
+    let o = osc(Kind::RcInverter, &[("r", r), ("c", c), ("vtn", 0.4), ("vtp", 0.5), ("ratio_pn", 0.5)]);
+    let t = r * c * (((1.8 + vm) / vm).ln() + ((3.6 - vm) / (1.8 - vm)).ln());
+    close(o.period().unwrap(), t, 1e-10);
+}

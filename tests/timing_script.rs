@@ -47,3 +47,40 @@ fn script_errors_name_the_key() {
         assert!(!ok && err.contains(msg), "{code}: {err}");
     }
 }
+
+#[test]
+fn every_registered_timing_function_has_docs() {
+    use std::collections::BTreeSet;
+    use tickwork::engine::{sandbox::Sandbox, session::{Session, Shared}, timing_api};
+    let dir = tempfile::tempdir().unwrap();
+    let s = Shared::new(Session::new("t", Sandbox::new(dir.path(), dir.path(), dir.path()).unwrap()));
+    let mut e = rhai::Engine::new_raw();
+    timing_api::register(&mut e, &s);
+    let registered: BTreeSet<String> = e
+        .gen_fn_signatures(false)
+        .iter()
+        .map(|sig| sig.split('(').next().unwrap_or("").trim().to_string())
+        .filter(|n| n != "to_string" && n != "to_debug")
+        .collect();
+    let documented: BTreeSet<String> = timing_api::DOCS.iter().map(|d| d.name.to_string()).collect();
+    assert_eq!(registered, documented);
+    for d in timing_api::DOCS {
+        assert!(d.sig.contains(d.name) && !d.summary.is_empty(), "{d:?}");
+    }
+}
+
+#[test]
+fn example_script_runs() {
+    // scripts/02-period-budget.rhai end to end: every timing call succeeds, the report has its
+    // tables and both waterfall figures.
+    let text = std::fs::read_to_string(concat!(env!("CARGO_MANIFEST_DIR"), "/scripts/02-period-budget.rhai")).unwrap();
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::write(dir.path().join("t.rhai"), text).unwrap();
+    let o = Command::new(env!("CARGO_BIN_EXE_tickwork")).args(["run", "t.rhai", "--out", "out"]).current_dir(dir.path()).output().unwrap();
+    let (out, err) = (String::from_utf8_lossy(&o.stdout), String::from_utf8_lossy(&o.stderr));
+    assert!(o.status.success(), "{err}");
+    assert!(out.contains("window: ideal period = 250 ns") && out.contains("ping-pong: ideal period = 250 ns"), "{out}");
+    let report = std::fs::read_to_string(dir.path().join("out/t/report.md")).unwrap();
+    assert!(report.contains("| parasitic | alone (s)") && report.contains("interaction remainder"), "{report}");
+    assert_eq!(report.matches(".svg)").count(), 2, "{report}");
+}

@@ -18,7 +18,7 @@ type R<T> = Result<T, Box<EvalAltResult>>;
 
 pub const DOCS: &[Doc] = &[
     Doc { name: "osc", sig: "osc(kind: string, params: map) -> Oscillator", summary: "an oscillator from explicit numbers; kinds \"rc-inverter\", \"schmitt\", \"window\", \"reset\", \"pingpong\"; keys c (F), i (A), r (Ω), v_lo, v_hi, vdd (V), temp (°C) and one key per parasitic (default ideal); osc_keys(kind) lists them" },
-    Doc { name: "osc_from", sig: "osc_from(process: Process|string, kind: string, params: map) -> Oscillator", summary: "an oscillator whose parts are devices of a process (a process object, or a built-in name such as \"demo180\"): mirrors, switches, input-pair comparators, process capacitor; device sizes mirror_w, mirror_l, sw_w, sw_l, cmp_w, cmp_l (m), cmp_itail (A), cmp_cload (F); names cap_type (default \"mim\") and mirror (\"simple\", \"cascode\", \"wide-swing\"; default \"cascode\"); osc_keys(kind, \"process\") lists the keys" },
+    Doc { name: "osc_from", sig: "osc_from(process: Process|string, kind: string, params: map) -> Oscillator", summary: "an oscillator whose parts are devices of a process (a process object, or a built-in name such as \"demo180\"): mirrors, switches, input-pair comparators, process capacitor; device sizes mirror_w, mirror_l, sw_w, sw_l, cmp_w, cmp_l (m), cmp_itail (A), cmp_cload (F); inverter sizes inv_wn, inv_wp, inv_l (m); names cap_type (default \"mim\"), res_type (default \"rpoly\") and mirror (\"simple\", \"cascode\", \"wide-swing\"; default \"cascode\"); osc_keys(kind, \"process\") lists the keys" },
     Doc { name: "osc_keys", sig: "osc_keys(kind: string) -> array", summary: "the keys an oscillator kind accepts in osc(), each as \"name (unit): meaning [default]\"" },
     Doc { name: "osc_keys", sig: "osc_keys(kind: string, \"process\") -> array", summary: "the numeric keys of osc_from() for that kind" },
     Doc { name: "corners", sig: "o.corners() -> array", summary: "the corners the oscillator can be evaluated at (o.at(#{corner: name}))" },
@@ -29,7 +29,7 @@ pub const DOCS: &[Doc] = &[
     Doc { name: "v_peak", sig: "o.v_peak() -> float", summary: "highest node voltage over the cycle, overshoot included, V" },
     Doc { name: "overshoot", sig: "o.overshoot() -> float", summary: "largest excursion of the node beyond a threshold caused by the delay chain, V" },
     Doc { name: "cycle", sig: "o.cycle() -> map", summary: "period, frequency, duty, v_peak, v_valley (V), overshoot (V), iterations, phases (array of #{name, v_start, v_threshold, v_end, ramp, delay, slope})" },
-    Doc { name: "budget", sig: "o.budget() -> map", summary: "error budget: ideal, full, total_error, remainder, ideal_comparators, comparator_share, ideal_delay_chain, delay_chain_share (s); rows (array of maps for table); waterfall and buildup (#{labels, y} for plot kind \"bar\", waterfall: true)" },
+    Doc { name: "budget", sig: "o.budget() -> map", summary: "error budget: ideal, full, total_error, remainder, ideal_comparators, comparator_share, ideal_delay_chain, delay_chain_share (s); rows (array of #{parasitic, alone, alone_pct, step, step_pct, cumulative} for table; pct = % of the ideal period); waterfall and buildup (#{labels, y} for plot kind \"bar\", waterfall: true)" },
     Doc { name: "at", sig: "o.at(#{temp: °C, vdd: V, corner: string}) -> Oscillator", summary: "the same oscillator at another operating point (any of the keys)" },
     Doc { name: "modified", sig: "o.modified(params: map) -> Oscillator", summary: "a copy of the oscillator with some keys changed (checked like osc); o itself is unchanged" },
     Doc { name: "sweep", sig: "o.sweep(key: string, values: Series) -> Series", summary: "period with every parasitic for each value of one key, s" },
@@ -110,8 +110,9 @@ fn budget_map(o: &Osc) -> R<Map> {
             let mut q = Map::new();
             q.insert("parasitic".into(), Dynamic::from(r.parasitic.label().to_string()));
             q.insert("alone".into(), f(r.alone));
-            q.insert("alone_ppm".into(), f(r.alone / b.ideal * 1e6));
+            q.insert("alone_pct".into(), f(r.alone / b.ideal * 100.0));
             q.insert("step".into(), f(r.step));
+            q.insert("step_pct".into(), f(r.step / b.ideal * 100.0));
             q.insert("cumulative".into(), f(r.cumulative));
             Dynamic::from_map(q)
         })
@@ -181,7 +182,8 @@ fn from_process(pr: &Process, k: &str, mut m: Map) -> R<Osc> {
     };
     let cap_type = name("cap_type", "mim")?;
     let mirror = lift(MirrorKind::parse(&name("mirror", "cascode")?).map_err(|e| format!("{what}: key 'mirror': {e}")))?;
-    lift(osc_from(pr, kind, Choices { cap_type, mirror }, &pairs(&what, &m)?))
+    let res_type = name("res_type", "rpoly")?;
+    lift(osc_from(pr, kind, Choices { cap_type, mirror, res_type }, &pairs(&what, &m)?))
 }
 
 pub fn register(engine: &mut Engine, _session: &Shared) {

@@ -3,9 +3,7 @@
 //! re-run differ.
 use std::collections::BTreeMap;
 
-use serde::Serialize;
-
-#[derive(Clone, Debug, PartialEq, Default, Serialize)]
+#[derive(Clone, Debug, PartialEq, Default)]
 pub struct Provenance {
     /// `tickwork <version>`.
     pub tool: String,
@@ -18,7 +16,6 @@ pub struct Provenance {
     pub overrides: BTreeMap<String, String>,
     pub seed: u64,
     /// UTC time of the run, only with `--stamp`.
-    #[serde(skip_serializing_if = "Option::is_none")]
     pub stamp: Option<String>,
 }
 

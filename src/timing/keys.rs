@@ -29,7 +29,7 @@ impl Kind {
         match mode {
             Mode::Explicit => self.keys(),
             Mode::Process => match self {
-                Kind::RcInverter => &[],
+                Kind::RcInverter => &["c", "r", "vdd", "temp", "inv_wn", "inv_wp", "inv_l", "c_in", "vos", "t_logic"],
                 Kind::Schmitt => &[
                     "c", "i", "vdd", "temp", "ratio_n", "ratio_p", "mirror_w", "mirror_l", "sw_w", "sw_l", "c_in",
                     "i_mismatch", "vos_hi", "vos_lo", "t_cmp", "t_logic", "t_sw",
@@ -68,10 +68,12 @@ impl Kind {
     /// Keys this kind accepts, basic keys first.
     pub fn keys(self) -> &'static [&'static str] {
         match self {
-            Kind::RcInverter => &["c", "r", "vdd", "temp", "v_th", "tc_r", "tc_c", "c_in", "vos", "t_logic"],
+            Kind::RcInverter => &[
+                "c", "r", "vdd", "temp", "v_th", "vtn", "vtp", "ratio_pn", "tc_vt", "tc_r", "tc_c", "r_vc", "c_in", "vos", "t_logic",
+            ],
             Kind::Schmitt => &[
                 "c", "i", "r", "v_lo", "v_hi", "vdd", "temp", "vtn", "vtp", "ratio_n", "ratio_p", "tc_vt", "tc_i",
-                "tc_r", "tc_c", "c_vc1", "c_vc2", "c_swn", "c_swp", "sw_phi", "sw_m", "c_in", "r_out", "v_ds_ref",
+                "tc_r", "tc_c", "r_vc", "c_vc1", "c_vc2", "c_swn", "c_swp", "sw_phi", "sw_m", "c_in", "r_out", "v_ds_ref",
                 "i_mismatch", "vos_hi", "vos_lo", "t_cmp", "cmp_gbw", "cmp_a0", "cmp_slew", "cmp_vsw", "t_logic", "t_sw",
             ],
             Kind::Window => &[
@@ -151,12 +153,14 @@ pub const KEYS: &[KeyDef] = &[
     k!("v_th", "V", Derived, 0.0, 100.0, true, None, "inverter switching threshold (default vdd/2)"),
     k!("vtn", "V", Derived, 0.0, 10.0, true, None, "NMOS threshold of the Schmitt trigger (derives v_hi)"),
     k!("vtp", "V", Derived, 0.0, 10.0, true, None, "|PMOS threshold| of the Schmitt trigger (derives v_lo)"),
+    k!("ratio_pn", "1", Value(1.0), 0.0, 1e4, true, None, "inverter βp/βn (derives v_th with vtn, vtp)"),
     k!("ratio_n", "1", Value(1.0), 0.0, 1e4, true, None, "Schmitt trigger β1/β3 (NMOS stack / NMOS feedback)"),
     k!("ratio_p", "1", Value(1.0), 0.0, 1e4, true, None, "Schmitt trigger β5/β6 (PMOS stack / PMOS feedback)"),
     k!("tc_vt", "V/K", Value(0.0), -0.1, 0.1, false, None, "temperature coefficient of vtn and vtp"),
     k!("tc_i", "1/K", Value(0.0), -0.1, 0.1, false, None, "linear tempco of the current i about 27 °C"),
-    k!("tc_r", "1/K", Value(0.0), -0.1, 0.1, false, None, "linear tempco of the resistor r about 27 °C"),
+    k!("tc_r", "1/K", Value(0.0), -0.01, 0.01, false, None, "linear tempco of the resistor r about 27 °C"),
     k!("tc_c", "1/K", Value(0.0), -0.01, 0.01, false, None, "linear tempco of the capacitor c about 27 °C"),
+    k!("r_vc", "1/V", Value(0.0), -0.1, 0.1, false, Some(P::ResVc), "resistor R(V) = r·(1 + r_vc·|V|), V across it"),
     k!("c_vc1", "1/V", Value(0.0), -0.1, 0.1, false, Some(P::CapVc), "capacitor C(V) = c·(1 + c_vc1·V + c_vc2·V²)"),
     k!("c_vc2", "1/V²", Value(0.0), -0.1, 0.1, false, Some(P::CapVc), "second-order capacitor voltage coefficient"),
     k!("c_swn", "F", Value(0.0), 0.0, 1e-6, false, Some(P::SwitchCap), "zero-bias n-junction capacitance of the switches on the node (reverse bias V)"),
@@ -186,6 +190,9 @@ pub const KEYS: &[KeyDef] = &[
     k!("mirror_l", "m", Value(2e-6), 0.0, 1e-3, true, None, "length of the mirror devices (process models)"),
     k!("sw_w", "m", Value(1e-6), 0.0, 1e-3, true, None, "width of the NMOS switches; PMOS switches are twice as wide (process models)"),
     k!("sw_l", "m", Value(0.18e-6), 0.0, 1e-3, true, None, "length of the switches (process models)"),
+    k!("inv_wn", "m", Value(1e-6), 0.0, 1e-3, true, None, "NMOS width of the inverters (process models)"),
+    k!("inv_wp", "m", Value(2e-6), 0.0, 1e-3, true, None, "PMOS width of the inverters (process models)"),
+    k!("inv_l", "m", Value(0.18e-6), 0.0, 1e-3, true, None, "length of the inverter devices (process models)"),
     k!("cmp_w", "m", Value(4e-6), 0.0, 1e-3, true, None, "width of each comparator input device (process models)"),
     k!("cmp_l", "m", Value(1e-6), 0.0, 1e-3, true, None, "length of the comparator input devices (process models)"),
     k!("cmp_itail", "A", Value(2e-6), 0.0, 1.0, true, None, "comparator tail current (process models)"),
@@ -253,7 +260,15 @@ impl Params {
         };
         need("c")?;
         match self.kind {
-            Kind::RcInverter => need("r")?,
+            Kind::RcInverter => {
+                need("r")?;
+                if self.has("v_th") && (self.has("vtn") || self.has("vtp")) {
+                    return Err(format!("osc(\"{kind}\"): give the threshold either as 'v_th' or through 'vtn'/'vtp', not both"));
+                }
+                if self.has("vtn") != self.has("vtp") {
+                    return Err(format!("osc(\"{kind}\"): 'vtn' and 'vtp' go together"));
+                }
+            }
             Kind::Window => {
                 need("i")?;
                 need("v_lo")?;

@@ -278,6 +278,13 @@ impl View<'_> {
         if self.on(Parasitic::CmpDelay) { self.o.parts.cmp_lo.delay(slope, self.env) } else { 0.0 }
     }
     /// Latch, logic and switch delay after the comparator, s.
+    /// Timing resistance with `v` across it, Ω.
+    pub fn res(&self, v: f64) -> f64 {
+        match &self.o.parts.res {
+            Some(r) => r.r(if self.on(Parasitic::ResVc) { v } else { 0.0 }, self.env.temp_c),
+            None => f64::NAN,
+        }
+    }
     pub fn chain(&self, latch: bool) -> f64 {
         let mut t = 0.0;
         if self.on(Parasitic::LogicDelay) {

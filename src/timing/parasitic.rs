@@ -6,11 +6,14 @@
 pub enum Parasitic {
     /// Voltage coefficient of the timing capacitor (keys c_vc1, c_vc2).
     CapVc,
+    /// Voltage coefficient of the timing resistor (key r_vc).
+    ResVc,
     /// Junction capacitance the switches add to the node, versus voltage (c_swn, c_swp).
     SwitchCap,
     /// Input capacitance of the comparator / trigger / inverter on the node (c_in).
     InputCap,
-    /// Output resistance of the current mirrors (r_out, v_ds_ref).
+    /// Output resistance of the current mirrors (r_out, v_ds_ref); with process mirrors, their
+    /// whole output characteristic (Vds-dependent error, compliance).
     MirrorRout,
     /// Low-side versus high-side current mismatch (i_mismatch).
     Mismatch,
@@ -28,8 +31,9 @@ pub enum Parasitic {
     Reset,
 }
 
-pub const ALL: [Parasitic; 11] = [
+pub const ALL: [Parasitic; 12] = [
     Parasitic::CapVc,
+    Parasitic::ResVc,
     Parasitic::SwitchCap,
     Parasitic::InputCap,
     Parasitic::MirrorRout,
@@ -47,6 +51,7 @@ impl Parasitic {
     pub fn name(self) -> &'static str {
         match self {
             Parasitic::CapVc => "cap_vc",
+            Parasitic::ResVc => "res_vc",
             Parasitic::SwitchCap => "switch_cap",
             Parasitic::InputCap => "input_cap",
             Parasitic::MirrorRout => "mirror_rout",
@@ -63,9 +68,10 @@ impl Parasitic {
     pub fn label(self) -> &'static str {
         match self {
             Parasitic::CapVc => "capacitor voltage coefficient",
+            Parasitic::ResVc => "resistor voltage coefficient",
             Parasitic::SwitchCap => "switch junction capacitance",
             Parasitic::InputCap => "comparator input capacitance",
-            Parasitic::MirrorRout => "mirror output resistance",
+            Parasitic::MirrorRout => "mirror output resistance and Vds error",
             Parasitic::Mismatch => "high/low current mismatch",
             Parasitic::CapMismatch => "capacitor mismatch",
             Parasitic::Offset => "comparator offset",

@@ -12,6 +12,7 @@ use crate::physics::capacitor::Capacitor;
 use crate::physics::comparator::{Comparator, ComparatorSpec};
 use crate::physics::junction::junction_cap;
 use crate::physics::mirror::Mirror;
+use crate::physics::resistor::Resistor;
 use crate::physics::switch::Switch;
 
 /// The timing capacitor.
@@ -62,6 +63,10 @@ pub struct Parts {
     pub r_reset: f64,
     /// Thresholds (v_lo, v_hi) fixed by the parts (a process Schmitt trigger), else None.
     pub levels: Option<(f64, f64)>,
+    /// The timing resistor (RC kinds).
+    pub res: Option<Resistor>,
+    /// Inverter threshold fixed by the parts (process inverters), V.
+    pub v_th: Option<f64>,
 }
 
 impl Parts {
@@ -84,6 +89,8 @@ impl Parts {
             cmp_lo: explicit_comparator(p, lo, c_in_lo)?,
             r_reset: p.get("r_reset"),
             levels: None,
+            res: if p.has("r") { Some(Resistor::new(p.get("r"), p.get("tc_r"), 0.0, p.get("r_vc"), super::env::T_REF_C)?) } else { None },
+            v_th: None,
         })
     }
 }

@@ -13,11 +13,11 @@ pub fn ramp_time(c: &dyn Fn(f64) -> f64, i: &dyn Fn(f64) -> f64, v0: f64, v1: f6
         return Ok(0.0);
     }
     let dir = (v1 - v0).signum();
-    const N: usize = 64;
+    const N: usize = 16;
     for k in 0..=N {
         let v = v0 + (v1 - v0) * k as f64 / N as f64;
         let (ci, ii) = (c(v), i(v));
-        if !(ii * dir > 0.0) {
+        if ii.is_nan() || ii * dir <= 0.0 {
             return Err(format!(
                 "the ramp from {v0:.4} V to {v1:.4} V stops: the current is {ii:.3e} A at {v:.4} V, so the node never reaches the threshold"
             ));
@@ -63,18 +63,19 @@ pub fn advance(c: &dyn Fn(f64) -> f64, i: &dyn Fn(f64) -> f64, v0: f64, dt: f64)
 
 /// Periodic steady state of a cycle map: iterate x ← f(x) from `x0` until the state (node
 /// voltages at the start of a cycle) stops moving (1e-13 relative, 1e-15 V absolute).
-/// Returns the fixed point and the number of cycles it took.
-pub fn steady<const N: usize>(
-    mut f: impl FnMut([f64; N]) -> Result<[f64; N], String>,
+/// `f` returns the next state and what the cycle computed; the result is that of the last
+/// cycle (which starts and ends at the fixed point) and the number of cycles it took.
+pub fn steady<const N: usize, T>(
+    mut f: impl FnMut([f64; N]) -> Result<([f64; N], T), String>,
     x0: [f64; N],
-) -> Result<([f64; N], usize), String> {
+) -> Result<(T, usize), String> {
     let mut x = x0;
     for n in 1..=1000 {
-        let y = f(x)?;
+        let (y, out) = f(x)?;
         let moved = x.iter().zip(&y).map(|(a, b)| (a - b).abs() - 1e-13 * b.abs()).fold(f64::MIN, f64::max);
         x = y;
         if moved <= 1e-15 {
-            return Ok((x, n));
+            return Ok((out, n));
         }
     }
     Err(format!("no periodic steady state after 1000 cycles (start voltages {x:?} still moving)"))

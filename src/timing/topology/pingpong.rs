@@ -48,8 +48,7 @@ pub fn cycle(v: &View) -> Result<Cycle, String> {
         };
         Ok::<_, String>((a, b, [na, nb]))
     };
-    let (x0, iterations) = steady(|x| Ok(one(x)?.2), [vl, vl])?;
-    let (a, b, _) = one(x0)?;
+    let ((a, b), iterations) = steady(|x| one(x).map(|(a, b, n)| (n, (a, b))), [vl, vl])?;
     let period = a.ramp + a.delay + b.ramp + b.delay;
     let cy = Cycle {
         period,

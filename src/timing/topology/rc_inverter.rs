@@ -1,8 +1,10 @@
 //! Two-inverter RC astable: inverter 1 (input X, output A), inverter 2 (input A, output B),
 //! R from A to X, C from B to X. Each edge of B kicks X by ±V_DD through C; X then relaxes
 //! through R toward A until it crosses the inverter threshold.
+use super::super::env::T_REF_C;
 use super::super::osc::{Cycle, Osc, View};
 use super::super::ramp::steady;
+use super::super::thresholds::inverter_vm;
 use super::ramp_phase;
 
 /// Ideal period with inverter threshold V_T: T = RC·[ln((V_DD + V_T)/V_T) + ln((2·V_DD − V_T)/(V_DD − V_T))],
@@ -12,13 +14,24 @@ pub fn ideal_formula(r: f64, c: f64, vdd: f64, vt: f64) -> f64 {
     r * c * (((vdd + vt) / vt).ln() + ((2.0 * vdd - vt) / (vdd - vt)).ln())
 }
 
+/// The inverter threshold: from the process devices, from vtn/vtp, as given, or vdd/2.
 fn threshold(o: &Osc) -> f64 {
-    let vt = o.params.get("v_th");
-    if vt.is_nan() { 0.5 * o.env.vdd } else { vt }
+    let p = &o.params;
+    if let Some(vt) = o.parts.v_th {
+        vt
+    } else if p.has("vtn") {
+        let dt = p.get("tc_vt") * (o.env.temp_c - T_REF_C);
+        inverter_vm(o.env.vdd, p.get("vtn") + dt, p.get("vtp") + dt, p.get("ratio_pn"))
+    } else if p.has("v_th") {
+        p.get("v_th")
+    } else {
+        0.5 * o.env.vdd
+    }
 }
 
+/// The timing resistor at zero volts, Ω.
 fn resistance(o: &Osc) -> f64 {
-    o.params.get("r") * o.env.tc_factor(o.params.get("tc_r"))
+    o.parts.res.as_ref().map_or(f64::NAN, |r| r.r(0.0, o.env.temp_c))
 }
 
 pub fn ideal(o: &Osc) -> Result<f64, String> {
@@ -36,14 +49,13 @@ pub fn cycle(v: &View) -> Result<Cycle, String> {
     if !(vt > 0.0 && vt < vdd) {
         return Err(format!("osc(\"rc-inverter\"): the threshold with its shift, {vt:.4} V, must lie in (0, vdd = {vdd} V)"));
     }
-    let r = resistance(o);
     let c0 = o.parts.cap.nominal(v.env);
     // X sees C (to B) plus the inverter input capacitance to ground; a step of B divides
     // between them (charge sharing, common practice).
     let c = |x: f64| c0 + v.cin_hi(x);
     let kick = |x: f64| vdd * c0 / c(x);
-    let fall = |x: f64| -x / r;
-    let rise = |x: f64| (vdd - x) / r;
+    let fall = |x: f64| -x / v.res(x);
+    let rise = |x: f64| (vdd - x) / v.res(vdd - x);
     let d = |_s: f64| v.chain(false);
     let one = |x0: f64| {
         let a = ramp_phase("X falls (A low)", &c, &fall, x0, vt, &d)?;
@@ -52,8 +64,7 @@ pub fn cycle(v: &View) -> Result<Cycle, String> {
         let x2 = b.v_end + kick(b.v_end);
         Ok::<_, String>((a, b, x2))
     };
-    let ([x0], iterations) = steady(|[x]| Ok([one(x)?.2]), [vt + vdd])?;
-    let (a, b, _) = one(x0)?;
+    let ((a, b), iterations) = steady(|[x]| one(x).map(|(a, b, n)| ([n], (a, b))), [vt + vdd])?;
     let period = a.ramp + a.delay + b.ramp + b.delay;
     Ok(Cycle {
         period,

@@ -38,8 +38,7 @@ pub fn cycle(v: &View) -> Result<Cycle, String> {
         let b = PhaseTiming { name: "reset", v_start: a.v_end, v_threshold: vl, v_end: next, ramp: 0.0, delay: t_reset, slope: 0.0 };
         Ok::<_, String>((a, b))
     };
-    let ([x0], iterations) = steady(|[x]| Ok([one(x)?.1.v_end]), [vl])?;
-    let (a, b) = one(x0)?;
+    let ((a, b), iterations) = steady(|[x]| one(x).map(|(a, b)| ([b.v_end], (a, b))), [vl])?;
     if b.v_end >= vref {
         return Err(format!("osc(\"reset\"): the reset pulse leaves the node at {:.4} V, above the threshold {vref:.4} V: the reset is too short or its switch too weak", b.v_end));
     }

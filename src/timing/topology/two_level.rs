@@ -37,8 +37,9 @@ fn rc_mode(o: &Osc) -> bool {
     o.kind() == Kind::Schmitt && o.params.has("r")
 }
 
+/// The timing resistor at zero volts, Ω.
 fn resistance(o: &Osc) -> f64 {
-    o.params.get("r") * o.env.tc_factor(o.params.get("tc_r"))
+    o.parts.res.as_ref().map_or(f64::NAN, |r| r.r(0.0, o.env.temp_c))
 }
 
 pub fn ideal(o: &Osc) -> Result<f64, String> {
@@ -50,7 +51,7 @@ pub fn ideal(o: &Osc) -> Result<f64, String> {
 
 fn check_levels(o: &Osc, lo: f64, hi: f64) -> Result<(), String> {
     let kind = o.kind().name();
-    if !(lo < hi) {
+    if lo.is_nan() || hi.is_nan() || lo >= hi {
         return Err(format!("osc(\"{kind}\"): the low threshold {lo:.4} V is not below the high threshold {hi:.4} V"));
     }
     if rc_mode(o) && !(lo > 0.0 && hi < o.env.vdd) {
@@ -66,10 +67,9 @@ pub fn cycle(v: &View) -> Result<Cycle, String> {
     check_levels(o, lo, hi)?;
     let vdd = v.env.vdd;
     let rc = rc_mode(o);
-    let r = resistance(o);
     let c = |x: f64| v.cap(x) + v.node(x) + v.cin_hi(x) + v.cin_lo(x);
-    let up = |x: f64| if rc { (vdd - x) / r } else { v.i_ch(x) };
-    let dn = |x: f64| if rc { -x / r } else { -v.i_dis(x) };
+    let up = |x: f64| if rc { (vdd - x) / v.res(vdd - x) } else { v.i_ch(x) };
+    let dn = |x: f64| if rc { -x / v.res(x) } else { -v.i_dis(x) };
     let latch = o.kind() == Kind::Window;
     let d_hi = |s: f64| v.delay_hi(s) + v.chain(latch);
     let d_lo = |s: f64| v.delay_lo(s) + v.chain(latch);
@@ -78,8 +78,7 @@ pub fn cycle(v: &View) -> Result<Cycle, String> {
         let b = ramp_phase("discharge", &c, &dn, a.v_end, lo, &d_lo)?;
         Ok::<_, String>((a, b))
     };
-    let ([start], iterations) = steady(|[x]| Ok([one(x)?.1.v_end]), [lo])?;
-    let (a, b) = one(start)?;
+    let ((a, b), iterations) = steady(|[x]| one(x).map(|(a, b)| ([b.v_end], (a, b))), [lo])?;
     let period = a.ramp + a.delay + b.ramp + b.delay;
     let cy = Cycle {
         period,
