@@ -82,3 +82,11 @@ fn every_registered_function_is_documented() {
         assert!(internal || documented.contains(name), "'{name}' ({sig}) has no entry in a DOCS table");
     }
 }
+
+#[test]
+fn a_trailing_semicolon_suppresses_the_value_and_floats_print_exactly() {
+    let p = Project::new();
+    let o = p.repl("1 + 2;\n2 * 1.66V * 1pF / 1uA\n");
+    assert!(o.status.success(), "{}", stderr(&o));
+    assert_eq!(stdout(&o), "3.32e-6\n");
+}

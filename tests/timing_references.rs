@@ -46,7 +46,7 @@ fn thresholds_at_one_and_two_thirds_give_ln2_rc_per_phase() {
     for ph in &cy.phases {
         close(ph.ramp, std::f64::consts::LN_2 * r * c, 1e-10);
     }
-    close(cy.period, 2.0 * 0.693147180559945 * r * c, 1e-12);
+    close(cy.period, 2.0 * std::f64::consts::LN_2 * r * c, 1e-12);
 }
 
 #[test]

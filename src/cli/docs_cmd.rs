@@ -29,7 +29,7 @@ pub fn doc(name: Option<&str>) -> i32 {
         }
         Some(n) => match describe(n) {
             Some(t) => {
-                crate::engine::term::out(&format!("{t}"));
+                crate::engine::term::out(&t.to_string());
                 0
             }
             None => {

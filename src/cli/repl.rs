@@ -122,7 +122,14 @@ impl Evaluator {
             .eval_ast_with_scope(&mut self.scope, &ast)
             .map_err(|e| from_eval(&self.session.lock().sources, &file, &e, self.max_ops).to_string())?;
         self.functions = self.functions.merge(&ast.clone_functions_only());
-        Ok(if result.is_unit() { None } else { Some(result.to_string()) })
+        // A trailing `;` asks for the statement's effect only, not its value.
+        if result.is_unit() || t.ends_with(';') {
+            return Ok(None);
+        }
+        Ok(Some(match result.as_float() {
+            Ok(x) => format!("{x:?}"), // exact and short: 3.32e-6, not 0.00000332
+            Err(_) => result.to_string(),
+        }))
     }
 
     /// Modules imported by the entry, resolved now so later entries can use them.
@@ -176,7 +183,8 @@ fn import_statements(text: &str) -> Vec<(String, String)> {
 }
 
 const HELP: &str = "\
-Type statements as in a script; variables and functions stay defined.
+Type statements as in a script; variables and functions stay defined. The value of an
+entry is printed unless the entry ends with `;`.
   help NAME | doc NAME   signature, units and description of a function
   help                   this text
   Tab                    complete a function or variable name

@@ -343,13 +343,12 @@ impl Lexer {
                     i += 1;
                 }
                 ';' => {
-                    if let Some((depth, _)) = *pending_const {
-                        if depth == self.brackets.len() {
+                    if let Some((depth, _)) = *pending_const
+                        && depth == self.brackets.len() {
                             code.push(')');
                             out.columns.push(ln, Edit { col: i + 1, old_len: 0, new_len: 1 });
                             *pending_const = None;
                         }
-                    }
                     code.push(c);
                     i += 1;
                 }

@@ -26,11 +26,10 @@ pub fn suffix_exponent(suffix: &str) -> Result<i32, String> {
         return Ok(0);
     }
     for (p, e) in PREFIXES {
-        if let Some(unit) = suffix.strip_prefix(p) {
-            if UNITS.contains(&unit) {
+        if let Some(unit) = suffix.strip_prefix(p)
+            && UNITS.contains(&unit) {
                 return Ok(*e);
             }
-        }
     }
     let hint = match suffix.chars().next() {
         Some('K') => " (kilo is lower-case k)",
@@ -82,7 +81,6 @@ pub fn eng(x: f64, unit: &str, digits: usize) -> String {
             let mant = rounded / 10f64.powi(exp3);
             let int_digits = (exp10 - exp3 + 1) as usize;
             let decimals = digits.saturating_sub(int_digits);
-            let sep = if unit.is_empty() && p.is_empty() { "" } else if unit.is_empty() { "" } else { " " };
             format!("{mant:.decimals$}{sep}{p}{unit}")
         }
         None => format!("{:.*e}{sep}{unit}", digits - 1, rounded),
