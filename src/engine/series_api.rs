@@ -15,6 +15,7 @@ pub const DOCS: &[Doc] = &[
     Doc { name: "zeros", sig: "zeros(n: int) -> Series", summary: "n zeros" },
     Doc { name: "to_array", sig: "s.to_array() -> array", summary: "the Series as an array of floats" },
     Doc { name: "len", sig: "s.len() -> int", summary: "number of elements" },
+    Doc { name: "is_empty", sig: "s.is_empty() -> bool", summary: "true when the series has no elements" },
     Doc { name: "sum", sig: "s.sum() -> float", summary: "sum of the elements" },
     Doc { name: "mean", sig: "s.mean() -> float", summary: "arithmetic mean" },
     Doc { name: "stdev", sig: "s.stdev() -> float", summary: "sample standard deviation (divides by n − 1)" },
