@@ -204,7 +204,7 @@ impl IntoIterator for Series {
 /// Compact text form: the first few elements and the length.
 pub fn format_series(s: &Series) -> String {
     let v = s.as_slice();
-    let shown: Vec<String> = v.iter().take(6).map(|x| format!("{x}")).collect();
+    let shown: Vec<String> = v.iter().take(6).map(|x| format!("{x:?}")).collect();
     let more = if v.len() > 6 { ", …" } else { "" };
     format!("Series[{}]({}{more})", v.len(), shown.join(", "))
 }
