@@ -15,6 +15,7 @@ pub mod parts;
 pub mod ramp;
 pub mod thresholds;
 pub mod topology;
+pub mod transient;
 
 pub use budget::{Budget, BudgetRow};
 pub use env::Env;
