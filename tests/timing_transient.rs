@@ -297,3 +297,24 @@ show("label", s.events.label[2]);
         assert!(!ok && err.contains(msg), "{code}: {err}");
     }
 }
+
+#[test]
+fn a_ramp_that_cannot_reach_its_threshold_is_a_clear_error() {
+    // A mirror with 100 kΩ output resistance stops sourcing at V = vdd − v_ds_ref + i·r_out =
+    // 1.3 V (linear output conductance, common practice), short of the 1.5 V threshold: the node
+    // creeps toward 1.3 V for ever. Both models say so instead of returning a number.
+    let o = osc(Kind::Window, &[("c", 1e-12), ("i", 1e-6), ("v_lo", 0.2), ("v_hi", 1.5), ("r_out", 100e3)]);
+    assert!(o.period().is_err());
+    let e = simulate(&o, 3, &Options::default()).unwrap_err();
+    assert!(e.contains("phase 'charge'") && e.contains("without reaching it"), "{e}");
+}
+
+#[test]
+fn start_voltage_option_moves_only_the_first_cycle() {
+    // Started mid-window the first charge is shorter by C·(v0 − v_lo)/I (charge balance,
+    // common practice); the cycles after it are the steady 2·C·ΔV/I.
+    let o = osc(Kind::Window, &[("c", 1e-12), ("i", 1e-6), ("v_lo", 0.2), ("v_hi", 1.2)]);
+    let s = simulate(&o, 4, &Options { v0: Some(0.7), ..Options::default() }).unwrap();
+    close(s.periods[0], 2e-6 - 0.5e-6, 1e-12);
+    close(s.periods[3], 2e-6, 1e-12);
+}

@@ -168,7 +168,7 @@ fn reset_circuit<'a>(v: &'a View<'_>) -> Result<Circuit<'a>, String> {
             rate: [Box::new(move |x| v.i_ch(x) / c(x)), zero()],
             end: End::Threshold { node: 0, level: vref, rising: true, cmp: Box::new(move |s| v.delay_hi(s)), chain: v.chain(false) },
             jump: if r_reset > 0.0 { None } else { Some(Box::new(move |[_, y]| [vl, y])) },
-            no_early_trip: Some("osc(\"reset\"): the charge phase starts at or above its threshold: the reset pulse is too short or its switch too weak"),
+            no_early_trip: Some("osc(\"reset\"): the charge phase starts at or above its threshold: the reset pulse is too short or its switch too weak (or the start voltage v0 is above the threshold)"),
             rest: None,
         },
         Phase { name: "reset", rate: [during, zero()], end: End::Timed(t_reset), jump: None, no_early_trip: None, rest: None },
