@@ -168,8 +168,8 @@ pub fn simulate_masked(o: &Osc, mask: Mask, cycles: usize, opts: &Options) -> Re
         run.duties.push(duty_len / p);
     }
     if let Some((lo, hi)) = c.rails {
-        // A small margin: the integrator's own tolerance on a node resting at a rail.
-        let m = 1e-9 * vdd.max(1.0);
+        // A margin of the integrator's own tolerance, for a node resting at a rail.
+        let m = 10.0 * tol.atol;
         if run.v_max > hi + m || run.v_min < lo - m {
             return Err(format!(
                 "simulate(\"{kind}\"): the nodes swing from {:.4} V to {:.4} V, outside the supply {lo}…{hi} V: the current sources would saturate (the delay chain is too slow for this ramp, or the thresholds sit too close to a rail)",
