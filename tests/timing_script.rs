@@ -62,5 +62,6 @@ fn example_script_runs() {
     assert!(out.contains("window: ideal period = 250 ns") && out.contains("ping-pong: ideal period = 250 ns"), "{out}");
     let report = std::fs::read_to_string(dir.path().join("out/t/report.md")).unwrap();
     assert!(report.contains("| parasitic | alone (s)") && report.contains("interaction remainder"), "{report}");
-    assert_eq!(report.matches(".svg)").count(), 2, "{report}");
+    // two budget waterfalls and two simulated waveforms
+    assert_eq!(report.matches(".svg)").count(), 4, "{report}");
 }

@@ -12,6 +12,7 @@ use crate::physics::mirror::MirrorKind;
 use crate::physics::process::Process;
 use crate::timing::from_process::{osc_from, Choices};
 use crate::timing::keys::{def, Dflt, Kind, Mode};
+use crate::timing::transient::{simulate, Options, Transient, MAX_CYCLES};
 use crate::timing::{Cycle, Mask, Osc};
 
 type R<T> = Result<T, Box<EvalAltResult>>;
@@ -35,6 +36,8 @@ pub const DOCS: &[Doc] = &[
     Doc { name: "sweep", sig: "o.sweep(key: string, values: Series) -> Series", summary: "period with every parasitic for each value of one key, s" },
     Doc { name: "kind", sig: "o.kind() -> string", summary: "the topology name" },
     Doc { name: "params", sig: "o.params() -> map", summary: "the keys given, with their values" },
+    Doc { name: "simulate", sig: "o.simulate(cycles: int) -> map", summary: "behavioural transient run of 1..=100000 cycles with every parasitic, from a defined start (window, schmitt: node at the low threshold; reset, pingpong: capacitors at the reset level; rc-inverter: capacitor discharged, X = vdd): t (s) and v (V; v2 = capacitor B for pingpong) Series of the waveform, names (the nodes), events #{t (s), v (V), what (\"crossing\", \"decision\", \"switch\"), phase, label}, periods and duties (one per cycle), period (s) and duty of the steady state (mean of the last quarter of the cycles), frequency (Hz), settle_cycles (cycles more than 1e-6 off the steady period), v_min, v_max (V), steps" },
+    Doc { name: "simulate", sig: "o.simulate(cycles: int, options: map) -> map", summary: "as o.simulate(cycles), with options points_per_phase (0..=10000 waveform samples per phase; default 64, fewer for long runs), v0 (V, start voltage of the node, capacitor A or X), v0_b (V, start of pingpong capacitor B), rtol (integrator relative tolerance, 1e-13..=1e-4, default 1e-10)" },
 ];
 
 fn lift<T>(r: Result<T, String>) -> R<T> {
@@ -139,6 +142,98 @@ fn budget_map(o: &Osc) -> R<Map> {
     Ok(m)
 }
 
+/// The cycle count of `simulate`: an integer (or an integral float) in 1..=MAX_CYCLES.
+fn cycles_arg(v: &Dynamic) -> R<usize> {
+    let bad = || format!("simulate: 'cycles' must be an integer in 1..={MAX_CYCLES}, got {v} ({})", v.type_name());
+    let n = if let Ok(i) = v.as_int() {
+        i
+    } else if let Ok(x) = v.as_float() {
+        if x.fract() != 0.0 || !x.is_finite() {
+            return Err(bad().into());
+        }
+        x as i64
+    } else {
+        return Err(bad().into());
+    };
+    if !(1..=MAX_CYCLES as i64).contains(&n) {
+        return Err(bad().into());
+    }
+    Ok(n as usize)
+}
+
+/// Options of `simulate`, each checked and named in errors.
+fn sim_options(m: &Map) -> R<Options> {
+    let mut o = Options::default();
+    for (k, v) in m {
+        let num = |unit: &str| -> R<f64> {
+            to_f64(v).map_err(|_| format!("simulate: option '{k}' must be a number ({unit}), found {}", v.type_name()).into())
+        };
+        match k.as_str() {
+            "points_per_phase" => {
+                let n = v.as_int().map_err(|_| format!("simulate: option 'points_per_phase' must be an integer, found {}", v.type_name()))?;
+                if n < 0 {
+                    return Err(format!("simulate: option 'points_per_phase' must be in 0..=10000, got {n}").into());
+                }
+                o.points_per_phase = Some(n as usize);
+            }
+            "v0" => o.v0 = Some(num("V")?),
+            "v0_b" => o.v0_b = Some(num("V")?),
+            "rtol" => o.rtol = Some(num("1")?),
+            other => return Err(format!("simulate: unknown option '{other}'; the options are points_per_phase, v0, v0_b, rtol").into()),
+        }
+    }
+    Ok(o)
+}
+
+fn transient_map(s: Transient) -> Map {
+    let mut m = Map::new();
+    let f = |x: f64| Dynamic::from_float(x);
+    m.insert("t".into(), Dynamic::from(Series::from(s.t)));
+    let mut vs = s.v.into_iter();
+    if let Some(v) = vs.next() {
+        m.insert("v".into(), Dynamic::from(Series::from(v)));
+    }
+    if let Some(v) = vs.next() {
+        m.insert("v2".into(), Dynamic::from(Series::from(v)));
+    }
+    m.insert("names".into(), Dynamic::from_array(s.node_names.iter().map(|n| Dynamic::from(n.to_string())).collect()));
+    // Labels repeat every cycle: one shared string per distinct label.
+    let mut labels: std::collections::HashMap<(&str, &str), (Dynamic, Dynamic, Dynamic)> = std::collections::HashMap::new();
+    let (mut what, mut phase, mut label) = (Array::new(), Array::new(), Array::new());
+    for e in &s.events {
+        let (w, p, l) = labels
+            .entry((e.phase, e.kind.name()))
+            .or_insert_with(|| {
+                let w: rhai::ImmutableString = e.kind.name().into();
+                let p: rhai::ImmutableString = e.phase.into();
+                let l: rhai::ImmutableString = format!("{}: {}", e.phase, e.kind.name()).into();
+                (w.into(), p.into(), l.into())
+            })
+            .clone();
+        what.push(w);
+        phase.push(p);
+        label.push(l);
+    }
+    let mut ev = Map::new();
+    ev.insert("t".into(), Dynamic::from(s.events.iter().map(|e| e.t).collect::<Series>()));
+    ev.insert("v".into(), Dynamic::from(s.events.iter().map(|e| e.v).collect::<Series>()));
+    ev.insert("what".into(), Dynamic::from_array(what));
+    ev.insert("phase".into(), Dynamic::from_array(phase));
+    ev.insert("label".into(), Dynamic::from_array(label));
+    m.insert("events".into(), Dynamic::from_map(ev));
+    m.insert("cycles".into(), Dynamic::from_int(s.periods.len() as i64));
+    m.insert("periods".into(), Dynamic::from(Series::from(s.periods)));
+    m.insert("duties".into(), Dynamic::from(Series::from(s.duties)));
+    m.insert("period".into(), f(s.period));
+    m.insert("frequency".into(), f(1.0 / s.period));
+    m.insert("duty".into(), f(s.duty));
+    m.insert("settle_cycles".into(), Dynamic::from_int(s.settle_cycles as i64));
+    m.insert("v_min".into(), f(s.v_min));
+    m.insert("v_max".into(), f(s.v_max));
+    m.insert("steps".into(), Dynamic::from_int(s.steps as i64));
+    m
+}
+
 fn describe(o: &Osc) -> String {
     let given: Vec<String> = o
         .params
@@ -236,6 +331,12 @@ pub fn register(engine: &mut Engine, _session: &Shared) {
             }
         }
         lift(o.at(temp, vdd, corner.as_deref()))
+    });
+    engine.register_fn("simulate", |o: &mut Osc, cycles: Dynamic| -> R<Map> {
+        Ok(transient_map(lift(simulate(o, cycles_arg(&cycles)?, &Options::default()))?))
+    });
+    engine.register_fn("simulate", |o: &mut Osc, cycles: Dynamic, opts: Map| -> R<Map> {
+        Ok(transient_map(lift(simulate(o, cycles_arg(&cycles)?, &sim_options(&opts)?))?))
     });
     engine.register_fn("sweep", |o: &mut Osc, key: &str, values: Series| -> R<Series> {
         values

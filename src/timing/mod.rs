@@ -5,6 +5,8 @@
 //! sources, comparators) behind small traits, so that explicit numbers and physics models
 //! plug in alike. Every period is evaluated under a `Mask` of parasitics: the empty mask is
 //! the ideal circuit, the full mask the real one; the error budget compares masks.
+//! `transient` runs the same parts in time (event-driven, exact threshold crossings) as a
+//! cross-check of the period model and for waveforms.
 pub mod budget;
 pub mod env;
 pub mod from_process;
@@ -15,6 +17,7 @@ pub mod parts;
 pub mod ramp;
 pub mod thresholds;
 pub mod topology;
+pub mod transient;
 
 pub use budget::{Budget, BudgetRow};
 pub use env::Env;

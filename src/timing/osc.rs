@@ -53,6 +53,9 @@ pub struct Osc {
     origin: Arc<dyn Origin>,
     /// Parasitics the parts carry whatever the keys say (physics-model parts).
     pub inherent: Vec<Parasitic>,
+    /// Parasitics present (given a non-ideal value, or inherent), fixed at assembly: the masked
+    /// accessors of `View` consult it on every evaluation of the node equations.
+    present: Mask,
 }
 
 impl std::fmt::Debug for Osc {
@@ -120,7 +123,11 @@ impl Osc {
         let parts = origin.build(&params, &corner)?;
         let env = Env { temp_c: params.get("temp"), vdd: params.get("vdd"), corner };
         let inherent = origin.inherent(&params);
-        let o = Osc { params, env, parts, origin, inherent };
+        let present = super::parasitic::ALL
+            .iter()
+            .filter(|p| params.sets(**p) || inherent.contains(p))
+            .fold(Mask::NONE, |m, p| m.with(*p));
+        let o = Osc { params, env, parts, origin, inherent, present };
         o.check()?;
         Ok(o)
     }
@@ -234,7 +241,7 @@ pub struct View<'a> {
 
 impl View<'_> {
     pub fn on(&self, p: Parasitic) -> bool {
-        self.m.on(p) && (self.o.params.sets(p) || self.o.inherent.contains(&p))
+        self.m.on(p) && self.o.present.on(p)
     }
     pub fn p(&self, key: &str) -> f64 {
         self.o.params.get(key)

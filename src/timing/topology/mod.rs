@@ -1,8 +1,8 @@
 //! The five topologies: ideal (textbook) period and the cycle with parasitics.
-mod pingpong;
-mod rc_inverter;
-mod reset;
-mod two_level;
+pub(crate) mod pingpong;
+pub(crate) mod rc_inverter;
+pub(crate) mod reset;
+pub(crate) mod two_level;
 
 use super::keys::Kind;
 use super::osc::{Cycle, Osc, PhaseTiming, View};

@@ -15,7 +15,7 @@ pub fn ideal_formula(r: f64, c: f64, vdd: f64, vt: f64) -> f64 {
 }
 
 /// The inverter threshold: from the process devices, from vtn/vtp, as given, or vdd/2.
-fn threshold(o: &Osc) -> f64 {
+pub(crate) fn threshold(o: &Osc) -> f64 {
     let p = &o.params;
     if let Some(vt) = o.parts.v_th {
         vt

@@ -10,7 +10,7 @@ pub fn ideal_formula(c: f64, i: f64, v_reset: f64, v_ref: f64) -> f64 {
     c * (v_ref - v_reset) / i
 }
 
-fn v_reset(o: &Osc) -> f64 {
+pub(crate) fn v_reset(o: &Osc) -> f64 {
     if o.params.has("v_lo") { o.params.get("v_lo") } else { 0.0 }
 }
 

@@ -33,7 +33,7 @@ pub fn thresholds(o: &Osc) -> (f64, f64) {
     }
 }
 
-fn rc_mode(o: &Osc) -> bool {
+pub(crate) fn rc_mode(o: &Osc) -> bool {
     o.kind() == Kind::Schmitt && o.params.has("r")
 }
 
@@ -49,7 +49,7 @@ pub fn ideal(o: &Osc) -> Result<f64, String> {
     Ok(if rc_mode(o) { ideal_rc(resistance(o), c, o.env.vdd, lo, hi) } else { ideal_current(c, o.parts.charge.nominal(&o.env), lo, hi) })
 }
 
-fn check_levels(o: &Osc, lo: f64, hi: f64) -> Result<(), String> {
+pub(crate) fn check_levels(o: &Osc, lo: f64, hi: f64) -> Result<(), String> {
     let kind = o.kind().name();
     if lo.is_nan() || hi.is_nan() || lo >= hi {
         return Err(format!("osc(\"{kind}\"): the low threshold {lo:.4} V is not below the high threshold {hi:.4} V"));
