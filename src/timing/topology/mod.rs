@@ -4,9 +4,16 @@ pub(crate) mod rc_inverter;
 pub(crate) mod reset;
 pub(crate) mod two_level;
 
+use std::rc::Rc;
+
 use super::keys::Kind;
 use super::osc::{Cycle, Osc, PhaseTiming, View};
 use super::ramp::{advance, ramp_time};
+
+/// A function of a node voltage (F, A or V/s) under an oscillator's view. Each topology
+/// defines its nodes once (`node` in its file); the period model and the transient
+/// simulation both read them, so the two cannot disagree on what sits on a node.
+pub(crate) type NodeFn<'a> = Rc<dyn Fn(f64) -> f64 + 'a>;
 
 pub fn ideal_period(o: &Osc) -> Result<f64, String> {
     match o.kind() {

@@ -1,9 +1,11 @@
 //! Ping-pong oscillator: two capacitors take turns; the active one is charged from its reset
 //! level to the reference while the other is reset; one comparator, one reference.
+use std::rc::Rc;
+
 use super::super::osc::{Cycle, Osc, View};
 use super::super::parasitic::Parasitic;
 use super::super::ramp::{advance, steady};
-use super::{check_rails, ramp_phase};
+use super::{check_rails, ramp_phase, NodeFn};
 
 /// Ideal period T = 2·C·(V_ref − V_reset)/I (common practice: two equal charge-balance ramps,
 /// instant reset of the idle capacitor).
@@ -19,7 +21,26 @@ pub fn ideal(o: &Osc) -> Result<f64, String> {
     Ok(ideal_formula(o.parts.cap.nominal(&o.env), o.parts.charge.nominal(&o.env), v_reset(o), o.params.get("v_hi")))
 }
 
-pub fn cycle(v: &View) -> Result<Cycle, String> {
+/// The two nodes of the ping-pong oscillator under the mask of `v`.
+pub(crate) struct Node<'a> {
+    /// Reset level and reference with offset, V.
+    pub vl: f64,
+    pub vref: f64,
+    /// Capacitance of A and B while active (with the comparator input) and while idle
+    /// (switches only), F; B carries the capacitor mismatch.
+    pub ca: NodeFn<'a>,
+    pub cb: NodeFn<'a>,
+    pub ca_idle: NodeFn<'a>,
+    pub cb_idle: NodeFn<'a>,
+    /// Charging current, A.
+    pub up: NodeFn<'a>,
+    /// Reset switch resistance, Ω (0: ideal reset), and the current it draws from an idle
+    /// capacitor, A.
+    pub r_reset: f64,
+    pub discharge: NodeFn<'a>,
+}
+
+pub(crate) fn node<'a>(v: &'a View<'_>) -> Result<Node<'a>, String> {
     let o = v.o;
     let vl = v_reset(o);
     let vref = o.params.get("v_hi") + v.vos_hi();
@@ -27,22 +48,32 @@ pub fn cycle(v: &View) -> Result<Cycle, String> {
         return Err(format!("osc(\"pingpong\"): the threshold with offset, {vref:.4} V, is not above the reset level {vl} V"));
     }
     let scale_b = if v.on(Parasitic::CapMismatch) { 1.0 + v.p("c_mismatch") } else { 1.0 };
+    let r_reset = if v.on(Parasitic::Reset) { o.parts.r_reset } else { 0.0 };
     // The active capacitor carries the comparator input; the idle one only its switches.
-    let ca = |x: f64| v.cap(x) + v.node(x) + v.cin_hi(x);
-    let cb = |x: f64| v.cap(x) * scale_b + v.node(x) + v.cin_hi(x);
-    let ca_idle = |x: f64| v.cap(x) + v.node(x);
-    let cb_idle = |x: f64| v.cap(x) * scale_b + v.node(x);
-    let up = |x: f64| v.i_ch(x);
+    Ok(Node {
+        vl,
+        vref,
+        ca: Rc::new(move |x: f64| v.cap(x) + v.node(x) + v.cin_hi(x)),
+        cb: Rc::new(move |x: f64| v.cap(x) * scale_b + v.node(x) + v.cin_hi(x)),
+        ca_idle: Rc::new(move |x: f64| v.cap(x) + v.node(x)),
+        cb_idle: Rc::new(move |x: f64| v.cap(x) * scale_b + v.node(x)),
+        up: Rc::new(move |x: f64| v.i_ch(x)),
+        r_reset,
+        discharge: Rc::new(move |x: f64| -(x - vl) / r_reset),
+    })
+}
+
+pub fn cycle(v: &View) -> Result<Cycle, String> {
+    let n = node(v)?;
+    let (vl, vref, r_reset) = (n.vl, n.vref, n.r_reset);
     let d = |s: f64| v.delay_hi(s) + v.chain(true);
-    let r_reset = if v.on(Parasitic::Reset) { v.o.parts.r_reset } else { 0.0 };
-    let discharge = |x: f64| -(x - vl) / r_reset;
     let one = |[xa, xb]: [f64; 2]| {
-        let a = ramp_phase("capacitor A", &ca, &up, xa, vref, &d)?;
-        let b = ramp_phase("capacitor B", &cb, &up, xb, vref, &d)?;
+        let a = ramp_phase("capacitor A", &*n.ca, &*n.up, xa, vref, &d)?;
+        let b = ramp_phase("capacitor B", &*n.cb, &*n.up, xb, vref, &d)?;
         // A resets while B is active, and B while A is active (the same A-phase length in the
         // steady state).
         let (na, nb) = if r_reset > 0.0 {
-            (advance(&ca_idle, &discharge, a.v_end, b.ramp + b.delay)?, advance(&cb_idle, &discharge, b.v_end, a.ramp + a.delay)?)
+            (advance(&*n.ca_idle, &*n.discharge, a.v_end, b.ramp + b.delay)?, advance(&*n.cb_idle, &*n.discharge, b.v_end, a.ramp + a.delay)?)
         } else {
             (vl, vl)
         };

@@ -1,11 +1,13 @@
 //! Two-inverter RC astable: inverter 1 (input X, output A), inverter 2 (input A, output B),
 //! R from A to X, C from B to X. Each edge of B kicks X by ±V_DD through C; X then relaxes
 //! through R toward A until it crosses the inverter threshold.
+use std::rc::Rc;
+
 use super::super::env::T_REF_C;
 use super::super::osc::{Cycle, Osc, View};
 use super::super::ramp::steady;
 use super::super::thresholds::inverter_vm;
-use super::ramp_phase;
+use super::{ramp_phase, NodeFn};
 
 /// Ideal period with inverter threshold V_T: T = RC·[ln((V_DD + V_T)/V_T) + ln((2·V_DD − V_T)/(V_DD − V_T))],
 /// 2·ln 3·RC ≈ 2.2·RC at V_T = V_DD/2 (textbook CMOS two-inverter astable, first-order RC
@@ -42,7 +44,20 @@ pub fn ideal(o: &Osc) -> Result<f64, String> {
     Ok(ideal_formula(resistance(o), o.parts.cap.nominal(&o.env), o.env.vdd, vt))
 }
 
-pub fn cycle(v: &View) -> Result<Cycle, String> {
+/// Node X of the RC astable under the mask of `v`.
+pub(crate) struct Node<'a> {
+    /// The inverter threshold with its shift, V.
+    pub vt: f64,
+    /// Capacitance at X: the timing capacitor (to B) and the inverter input, F.
+    pub c: NodeFn<'a>,
+    /// The step of X when B switches by V_DD, V.
+    pub kick: NodeFn<'a>,
+    /// Current into X through R while A is low (negative) and while A is high, A.
+    pub fall: NodeFn<'a>,
+    pub rise: NodeFn<'a>,
+}
+
+pub(crate) fn node<'a>(v: &'a View<'_>) -> Result<Node<'a>, String> {
     let o = v.o;
     let vdd = v.env.vdd;
     let vt = threshold(o) + v.vos_hi();
@@ -52,16 +67,27 @@ pub fn cycle(v: &View) -> Result<Cycle, String> {
     let c0 = o.parts.cap.nominal(v.env);
     // X sees C (to B) plus the inverter input capacitance to ground; a step of B divides
     // between them (charge sharing, common practice).
-    let c = |x: f64| c0 + v.cin_hi(x);
-    let kick = |x: f64| vdd * c0 / c(x);
-    let fall = |x: f64| -x / v.res(x);
-    let rise = |x: f64| (vdd - x) / v.res(vdd - x);
+    let c: NodeFn<'a> = Rc::new(move |x: f64| c0 + v.cin_hi(x));
+    let cc = c.clone();
+    Ok(Node {
+        vt,
+        c,
+        kick: Rc::new(move |x: f64| vdd * c0 / cc(x)),
+        fall: Rc::new(move |x: f64| -x / v.res(x)),
+        rise: Rc::new(move |x: f64| (vdd - x) / v.res(vdd - x)),
+    })
+}
+
+pub fn cycle(v: &View) -> Result<Cycle, String> {
+    let vdd = v.env.vdd;
+    let n = node(v)?;
+    let vt = n.vt;
     let d = |_s: f64| v.chain(false);
     let one = |x0: f64| {
-        let a = ramp_phase("X falls (A low)", &c, &fall, x0, vt, &d)?;
-        let x1 = a.v_end - kick(a.v_end);
-        let b = ramp_phase("X rises (A high)", &c, &rise, x1, vt, &d)?;
-        let x2 = b.v_end + kick(b.v_end);
+        let a = ramp_phase("X falls (A low)", &*n.c, &*n.fall, x0, vt, &d)?;
+        let x1 = a.v_end - (n.kick)(a.v_end);
+        let b = ramp_phase("X rises (A high)", &*n.c, &*n.rise, x1, vt, &d)?;
+        let x2 = b.v_end + (n.kick)(b.v_end);
         Ok::<_, String>((a, b, x2))
     };
     let ((a, b), iterations) = steady(|[x]| one(x).map(|(a, b, n)| ([n], (a, b))), [vt + vdd])?;

@@ -1,9 +1,11 @@
 //! Charge-and-reset oscillator: one capacitor charged by a mirrored current up to a reference,
 //! then reset by a switch; the finite reset pulse and switch resistance are parasitics.
+use std::rc::Rc;
+
 use super::super::osc::{Cycle, Osc, PhaseTiming, View};
 use super::super::parasitic::Parasitic;
 use super::super::ramp::{advance, steady};
-use super::{check_rails, ramp_phase};
+use super::{check_rails, ramp_phase, NodeFn};
 
 /// Ideal period T = C·(V_ref − V_reset)/I (common practice: charge balance, instant reset).
 pub fn ideal_formula(c: f64, i: f64, v_reset: f64, v_ref: f64) -> f64 {
@@ -18,23 +20,49 @@ pub fn ideal(o: &Osc) -> Result<f64, String> {
     Ok(ideal_formula(o.parts.cap.nominal(&o.env), o.parts.charge.nominal(&o.env), v_reset(o), o.params.get("v_hi")))
 }
 
-pub fn cycle(v: &View) -> Result<Cycle, String> {
+/// The node of the charge-and-reset oscillator under the mask of `v`.
+pub(crate) struct Node<'a> {
+    /// Reset level and threshold with offset, V.
+    pub vl: f64,
+    pub vref: f64,
+    /// Capacitance on the node: capacitor, switch junctions, comparator input, F.
+    pub c: NodeFn<'a>,
+    /// Charging current, A.
+    pub up: NodeFn<'a>,
+    /// Reset pulse length (s) and reset switch resistance (Ω); both 0 for an ideal reset.
+    pub t_reset: f64,
+    pub r_reset: f64,
+    /// Current into the node during a resistive reset, A: the source keeps feeding the node,
+    /// C·dV/dt = I(V) − (V − V_reset)/R.
+    pub during: NodeFn<'a>,
+}
+
+pub(crate) fn node<'a>(v: &'a View<'_>) -> Result<Node<'a>, String> {
     let o = v.o;
     let vl = v_reset(o);
     let vref = o.params.get("v_hi") + v.vos_hi();
     if vref <= vl {
         return Err(format!("osc(\"reset\"): the threshold with offset, {vref:.4} V, is not above the reset level {vl} V"));
     }
-    let c = |x: f64| v.cap(x) + v.node(x) + v.cin_hi(x);
-    let up = |x: f64| v.i_ch(x);
+    let (t_reset, r_reset) = if v.on(Parasitic::Reset) { (v.p("t_reset"), o.parts.r_reset) } else { (0.0, 0.0) };
+    Ok(Node {
+        vl,
+        vref,
+        c: Rc::new(move |x: f64| v.cap(x) + v.node(x) + v.cin_hi(x)),
+        up: Rc::new(move |x: f64| v.i_ch(x)),
+        t_reset,
+        r_reset,
+        during: Rc::new(move |x: f64| v.i_ch(x) - (x - vl) / r_reset),
+    })
+}
+
+pub fn cycle(v: &View) -> Result<Cycle, String> {
+    let n = node(v)?;
+    let (vl, vref, t_reset, r_reset) = (n.vl, n.vref, n.t_reset, n.r_reset);
     let d = |s: f64| v.delay_hi(s) + v.chain(false);
-    let reset_on = v.on(Parasitic::Reset);
-    let (t_reset, r_reset) = if reset_on { (v.p("t_reset"), v.o.parts.r_reset) } else { (0.0, 0.0) };
-    // During the reset pulse the source keeps feeding the node: C·dV/dt = I(V) − (V − V_reset)/R.
-    let during = |x: f64| v.i_ch(x) - (x - vl) / r_reset;
     let one = |x0: f64| {
-        let a = ramp_phase("charge", &c, &up, x0, vref, &d)?;
-        let next = if r_reset > 0.0 { advance(&c, &during, a.v_end, t_reset)? } else { vl };
+        let a = ramp_phase("charge", &*n.c, &*n.up, x0, vref, &d)?;
+        let next = if r_reset > 0.0 { advance(&*n.c, &*n.during, a.v_end, t_reset)? } else { vl };
         let b = PhaseTiming { name: "reset", v_start: a.v_end, v_threshold: vl, v_end: next, ramp: 0.0, delay: t_reset, slope: 0.0 };
         Ok::<_, String>((a, b))
     };

@@ -1,10 +1,12 @@
 //! Two-threshold oscillators on one capacitor: the window comparator oscillator (two
 //! comparators, SR latch) and the Schmitt-trigger oscillator (current-starved, or RC).
+use std::rc::Rc;
+
 use super::super::keys::Kind;
 use super::super::osc::{Cycle, Osc, View};
 use super::super::ramp::steady;
 use super::super::thresholds::schmitt_cmos;
-use super::{check_rails, ramp_phase};
+use super::{check_rails, ramp_phase, NodeFn};
 
 /// Ideal window / current-starved Schmitt oscillator: T = 2·C·(V_hi − V_lo)/I (common practice:
 /// charge balance C·ΔV = I·t over each of two equal ramps).
@@ -60,22 +62,49 @@ pub(crate) fn check_levels(o: &Osc, lo: f64, hi: f64) -> Result<(), String> {
     Ok(())
 }
 
-pub fn cycle(v: &View) -> Result<Cycle, String> {
+/// The node of a two-threshold oscillator under the mask of `v`.
+pub(crate) struct Node<'a> {
+    /// Thresholds with the comparator offsets, V.
+    pub lo: f64,
+    pub hi: f64,
+    /// Capacitance on the node: capacitor, switch junctions, both comparator inputs, F.
+    pub c: NodeFn<'a>,
+    /// Charging (positive) and discharging (negative) current into the node, A.
+    pub up: NodeFn<'a>,
+    pub dn: NodeFn<'a>,
+    /// The window oscillator's SR latch is in the delay chain; the Schmitt trigger has none.
+    pub latch: bool,
+    /// Charged through a resistor (RC Schmitt) rather than by current sources.
+    pub rc: bool,
+}
+
+pub(crate) fn node<'a>(v: &'a View<'_>) -> Result<Node<'a>, String> {
     let o = v.o;
     let (lo0, hi0) = thresholds(o);
     let (lo, hi) = (lo0 + v.vos_lo(), hi0 + v.vos_hi());
     check_levels(o, lo, hi)?;
     let vdd = v.env.vdd;
     let rc = rc_mode(o);
-    let c = |x: f64| v.cap(x) + v.node(x) + v.cin_hi(x) + v.cin_lo(x);
-    let up = |x: f64| if rc { (vdd - x) / v.res(vdd - x) } else { v.i_ch(x) };
-    let dn = |x: f64| if rc { -x / v.res(x) } else { -v.i_dis(x) };
-    let latch = o.kind() == Kind::Window;
-    let d_hi = |s: f64| v.delay_hi(s) + v.chain(latch);
-    let d_lo = |s: f64| v.delay_lo(s) + v.chain(latch);
+    Ok(Node {
+        lo,
+        hi,
+        c: Rc::new(move |x| v.cap(x) + v.node(x) + v.cin_hi(x) + v.cin_lo(x)),
+        up: Rc::new(move |x| if rc { (vdd - x) / v.res(vdd - x) } else { v.i_ch(x) }),
+        dn: Rc::new(move |x| if rc { -x / v.res(x) } else { -v.i_dis(x) }),
+        latch: o.kind() == Kind::Window,
+        rc,
+    })
+}
+
+pub fn cycle(v: &View) -> Result<Cycle, String> {
+    let o = v.o;
+    let n = node(v)?;
+    let (lo, hi, rc, vdd) = (n.lo, n.hi, n.rc, v.env.vdd);
+    let d_hi = |s: f64| v.delay_hi(s) + v.chain(n.latch);
+    let d_lo = |s: f64| v.delay_lo(s) + v.chain(n.latch);
     let one = |valley: f64| {
-        let a = ramp_phase("charge", &c, &up, valley, hi, &d_hi)?;
-        let b = ramp_phase("discharge", &c, &dn, a.v_end, lo, &d_lo)?;
+        let a = ramp_phase("charge", &*n.c, &*n.up, valley, hi, &d_hi)?;
+        let b = ramp_phase("discharge", &*n.c, &*n.dn, a.v_end, lo, &d_lo)?;
         Ok::<_, String>((a, b))
     };
     let ((a, b), iterations) = steady(|[x]| one(x).map(|(a, b)| ([b.v_end], (a, b))), [lo])?;

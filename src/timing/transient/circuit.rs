@@ -5,8 +5,7 @@
 use super::stepper::{Rates, State};
 use crate::timing::keys::Kind;
 use crate::timing::osc::View;
-use crate::timing::parasitic::Parasitic;
-use crate::timing::topology::{rc_inverter, reset, two_level};
+use crate::timing::topology::{pingpong, rc_inverter, reset, two_level, NodeFn};
 
 pub type F<'a> = Box<dyn Fn(f64) -> f64 + 'a>;
 
@@ -53,12 +52,6 @@ pub struct Circuit<'a> {
     pub duty_phase: usize,
 }
 
-/// The idle ping-pong capacitor: discharged through the reset switch toward the reset level
-/// (C·dV/dt = −(V − V_reset)/R), or held there by an ideal switch.
-fn idle<'a>(r: f64, vl: f64, cap: impl Fn(f64) -> f64 + 'a) -> F<'a> {
-    if r > 0.0 { Box::new(move |x| -(x - vl) / r / cap(x)) } else { zero() }
-}
-
 fn zero<'a>() -> F<'a> {
     Box::new(|_| 0.0)
 }
@@ -73,31 +66,29 @@ pub fn build<'a>(v: &'a View<'_>) -> Result<Circuit<'a>, String> {
     }
 }
 
+/// `f(x)/c(x)`: the rate of change of a node, V/s.
+fn rate<'a>(f: &NodeFn<'a>, c: &NodeFn<'a>) -> F<'a> {
+    let (f, c) = (f.clone(), c.clone());
+    Box::new(move |x| f(x) / c(x))
+}
+
 /// Window and Schmitt oscillators. Start: the node at the low threshold (with offset), charging.
 fn two_level_circuit<'a>(v: &'a View<'_>) -> Result<Circuit<'a>, String> {
-    let o = v.o;
-    let (lo0, hi0) = two_level::thresholds(o);
-    let (lo, hi) = (lo0 + v.vos_lo(), hi0 + v.vos_hi());
-    two_level::check_levels(o, lo, hi)?;
+    let n = two_level::node(v)?;
     let vdd = v.env.vdd;
-    let rc = two_level::rc_mode(o);
-    let latch = o.kind() == Kind::Window;
-    let c = move |x: f64| v.cap(x) + v.node(x) + v.cin_hi(x) + v.cin_lo(x);
-    let up = move |x: f64| if rc { (vdd - x) / v.res(vdd - x) } else { v.i_ch(x) };
-    let dn = move |x: f64| if rc { -x / v.res(x) } else { -v.i_dis(x) };
     let phases = vec![
         Phase {
             name: "charge",
-            rate: [Box::new(move |x| up(x) / c(x)), zero()],
-            end: End::Threshold { node: 0, level: hi, rising: true, cmp: Box::new(move |s| v.delay_hi(s)), chain: v.chain(latch) },
+            rate: [rate(&n.up, &n.c), zero()],
+            end: End::Threshold { node: 0, level: n.hi, rising: true, cmp: Box::new(move |s| v.delay_hi(s)), chain: v.chain(n.latch) },
             jump: None,
             no_early_trip: None,
             rest: None,
         },
         Phase {
             name: "discharge",
-            rate: [Box::new(move |x| dn(x) / c(x)), zero()],
-            end: End::Threshold { node: 0, level: lo, rising: false, cmp: Box::new(move |s| v.delay_lo(s)), chain: v.chain(latch) },
+            rate: [rate(&n.dn, &n.c), zero()],
+            end: End::Threshold { node: 0, level: n.lo, rising: false, cmp: Box::new(move |s| v.delay_lo(s)), chain: v.chain(n.latch) },
             jump: None,
             no_early_trip: None,
             rest: None,
@@ -105,10 +96,10 @@ fn two_level_circuit<'a>(v: &'a View<'_>) -> Result<Circuit<'a>, String> {
     ];
     Ok(Circuit {
         phases,
-        start: [lo, 0.0],
+        start: [n.lo, 0.0],
         nodes: 1,
         node_names: ["node", ""],
-        rails: if rc { None } else { Some((0.0, vdd)) },
+        rails: if n.rc { None } else { Some((0.0, vdd)) },
         duty_phase: 0,
     })
 }
@@ -116,62 +107,47 @@ fn two_level_circuit<'a>(v: &'a View<'_>) -> Result<Circuit<'a>, String> {
 /// Two-inverter RC astable, node X (input of the first inverter). Start: the timing capacitor
 /// discharged with B high, so X = vdd, falling.
 fn rc_inverter_circuit<'a>(v: &'a View<'_>) -> Result<Circuit<'a>, String> {
-    let o = v.o;
-    let vdd = v.env.vdd;
-    let vt = rc_inverter::threshold(o) + v.vos_hi();
-    if !(vt > 0.0 && vt < vdd) {
-        return Err(format!("osc(\"rc-inverter\"): the threshold with its shift, {vt:.4} V, must lie in (0, vdd = {vdd} V)"));
-    }
-    let c0 = o.parts.cap.nominal(v.env);
-    // X sees C (to B) plus the inverter input capacitance to ground; an edge of B divides
-    // between them (charge sharing, as in the period model).
-    let c = move |x: f64| c0 + v.cin_hi(x);
-    let kick = move |x: f64| vdd * c0 / c(x);
+    let n = rc_inverter::node(v)?;
     let chain = v.chain(false);
+    let (down, up) = (n.kick.clone(), n.kick.clone());
     let phases = vec![
         Phase {
             name: "X falls (A low)",
-            rate: [Box::new(move |x| -x / v.res(x) / c(x)), zero()],
-            end: End::Threshold { node: 0, level: vt, rising: false, cmp: zero(), chain },
-            jump: Some(Box::new(move |[x, y]| [x - kick(x), y])),
+            rate: [rate(&n.fall, &n.c), zero()],
+            end: End::Threshold { node: 0, level: n.vt, rising: false, cmp: zero(), chain },
+            jump: Some(Box::new(move |[x, y]| [x - down(x), y])),
             no_early_trip: None,
             rest: None,
         },
         Phase {
             name: "X rises (A high)",
-            rate: [Box::new(move |x| (vdd - x) / v.res(vdd - x) / c(x)), zero()],
-            end: End::Threshold { node: 0, level: vt, rising: true, cmp: zero(), chain },
-            jump: Some(Box::new(move |[x, y]| [x + kick(x), y])),
+            rate: [rate(&n.rise, &n.c), zero()],
+            end: End::Threshold { node: 0, level: n.vt, rising: true, cmp: zero(), chain },
+            jump: Some(Box::new(move |[x, y]| [x + up(x), y])),
             no_early_trip: None,
             rest: None,
         },
     ];
-    Ok(Circuit { phases, start: [vdd, 0.0], nodes: 1, node_names: ["X", ""], rails: None, duty_phase: 0 })
+    Ok(Circuit { phases, start: [v.env.vdd, 0.0], nodes: 1, node_names: ["X", ""], rails: None, duty_phase: 0 })
 }
 
 /// Charge-and-reset oscillator. Start: the node at the reset level, charging.
 fn reset_circuit<'a>(v: &'a View<'_>) -> Result<Circuit<'a>, String> {
-    let o = v.o;
-    let vl = reset::v_reset(o);
-    let vref = o.params.get("v_hi") + v.vos_hi();
-    if vref <= vl {
-        return Err(format!("osc(\"reset\"): the threshold with offset, {vref:.4} V, is not above the reset level {vl} V"));
-    }
-    let c = move |x: f64| v.cap(x) + v.node(x) + v.cin_hi(x);
-    let (t_reset, r_reset) = if v.on(Parasitic::Reset) { (v.p("t_reset"), o.parts.r_reset) } else { (0.0, 0.0) };
+    let n = reset::node(v)?;
+    let vl = n.vl;
     // An ideal switch sets the node to the reset level at once and holds it there; a resistive
-    // one discharges it while the source keeps feeding it: C·dV/dt = I(V) − (V − V_reset)/R.
-    let during: F<'a> = if r_reset > 0.0 { Box::new(move |x| (v.i_ch(x) - (x - vl) / r_reset) / c(x)) } else { zero() };
+    // one discharges it while the source keeps feeding it.
+    let during: F<'a> = if n.r_reset > 0.0 { rate(&n.during, &n.c) } else { zero() };
     let phases = vec![
         Phase {
             name: "charge",
-            rate: [Box::new(move |x| v.i_ch(x) / c(x)), zero()],
-            end: End::Threshold { node: 0, level: vref, rising: true, cmp: Box::new(move |s| v.delay_hi(s)), chain: v.chain(false) },
-            jump: if r_reset > 0.0 { None } else { Some(Box::new(move |[_, y]| [vl, y])) },
+            rate: [rate(&n.up, &n.c), zero()],
+            end: End::Threshold { node: 0, level: n.vref, rising: true, cmp: Box::new(move |s| v.delay_hi(s)), chain: v.chain(false) },
+            jump: if n.r_reset > 0.0 { None } else { Some(Box::new(move |[_, y]| [vl, y])) },
             no_early_trip: Some("osc(\"reset\"): the charge phase starts at or above its threshold: the reset pulse is too short or its switch too weak (or the start voltage v0 is above the threshold)"),
             rest: None,
         },
-        Phase { name: "reset", rate: [during, zero()], end: End::Timed(t_reset), jump: None, no_early_trip: None, rest: None },
+        Phase { name: "reset", rate: [during, zero()], end: End::Timed(n.t_reset), jump: None, no_early_trip: None, rest: None },
     ];
     Ok(Circuit { phases, start: [vl, 0.0], nodes: 1, node_names: ["node", ""], rails: Some((0.0, v.env.vdd)), duty_phase: 1 })
 }
@@ -179,33 +155,24 @@ fn reset_circuit<'a>(v: &'a View<'_>) -> Result<Circuit<'a>, String> {
 /// Ping-pong oscillator, capacitors A (node 0) and B (node 1). Start: both at the reset level,
 /// A charging.
 fn pingpong_circuit<'a>(v: &'a View<'_>) -> Result<Circuit<'a>, String> {
-    let o = v.o;
-    let vl = reset::v_reset(o);
-    let vref = o.params.get("v_hi") + v.vos_hi();
-    if vref <= vl {
-        return Err(format!("osc(\"pingpong\"): the threshold with offset, {vref:.4} V, is not above the reset level {vl} V"));
-    }
-    let scale_b = if v.on(Parasitic::CapMismatch) { 1.0 + v.p("c_mismatch") } else { 1.0 };
-    // The active capacitor carries the comparator input; the idle one only its switches.
-    let ca = move |x: f64| v.cap(x) + v.node(x) + v.cin_hi(x);
-    let cb = move |x: f64| v.cap(x) * scale_b + v.node(x) + v.cin_hi(x);
-    let ca_idle = move |x: f64| v.cap(x) + v.node(x);
-    let cb_idle = move |x: f64| v.cap(x) * scale_b + v.node(x);
-    let r = if v.on(Parasitic::Reset) { o.parts.r_reset } else { 0.0 };
+    let n = pingpong::node(v)?;
+    let (vl, r) = (n.vl, n.r_reset);
+    // The idle capacitor is discharged through the reset switch, or held by an ideal one.
+    let idle = |c: &NodeFn<'a>| if r > 0.0 { rate(&n.discharge, c) } else { zero() };
     let chain = v.chain(true);
     let phases = vec![
         Phase {
             name: "capacitor A",
-            rate: [Box::new(move |x| v.i_ch(x) / ca(x)), idle(r, vl, cb_idle)],
-            end: End::Threshold { node: 0, level: vref, rising: true, cmp: Box::new(move |s| v.delay_hi(s)), chain },
+            rate: [rate(&n.up, &n.ca), idle(&n.cb_idle)],
+            end: End::Threshold { node: 0, level: n.vref, rising: true, cmp: Box::new(move |s| v.delay_hi(s)), chain },
             jump: if r > 0.0 { None } else { Some(Box::new(move |[_, b]| [vl, b])) },
             no_early_trip: None,
             rest: if r > 0.0 { Some((1, vl)) } else { None },
         },
         Phase {
             name: "capacitor B",
-            rate: [idle(r, vl, ca_idle), Box::new(move |x| v.i_ch(x) / cb(x))],
-            end: End::Threshold { node: 1, level: vref, rising: true, cmp: Box::new(move |s| v.delay_hi(s)), chain },
+            rate: [idle(&n.ca_idle), rate(&n.up, &n.cb)],
+            end: End::Threshold { node: 1, level: n.vref, rising: true, cmp: Box::new(move |s| v.delay_hi(s)), chain },
             jump: if r > 0.0 { None } else { Some(Box::new(move |[a, _]| [a, vl])) },
             no_early_trip: None,
             rest: if r > 0.0 { Some((0, vl)) } else { None },
