@@ -5,16 +5,13 @@ use std::rc::Rc;
 use super::super::osc::{Cycle, Osc, View};
 use super::super::parasitic::Parasitic;
 use super::super::ramp::{advance, steady};
+use super::reset::v_reset;
 use super::{check_rails, ramp_phase, NodeFn};
 
 /// Ideal period T = 2·C·(V_ref − V_reset)/I (common practice: two equal charge-balance ramps,
 /// instant reset of the idle capacitor).
 pub fn ideal_formula(c: f64, i: f64, v_reset: f64, v_ref: f64) -> f64 {
     2.0 * c * (v_ref - v_reset) / i
-}
-
-fn v_reset(o: &Osc) -> f64 {
-    if o.params.has("v_lo") { o.params.get("v_lo") } else { 0.0 }
 }
 
 pub fn ideal(o: &Osc) -> Result<f64, String> {

@@ -12,6 +12,7 @@ pub fn ideal_formula(c: f64, i: f64, v_reset: f64, v_ref: f64) -> f64 {
     c * (v_ref - v_reset) / i
 }
 
+/// The reset level: `v_lo` if given, else ground (shared with the ping-pong oscillator).
 pub(crate) fn v_reset(o: &Osc) -> f64 {
     if o.params.has("v_lo") { o.params.get("v_lo") } else { 0.0 }
 }
