@@ -192,7 +192,7 @@ fn not_found(sig: &str) -> String {
         let mut v: Vec<&str> = super::docs::all()
             .iter()
             .map(|d| d.name)
-            .filter(|n| n.len() > 2 && (n.contains(short) || short.contains(n) || edit_distance(n, short) <= 2))
+            .filter(|n| n.len() > 2 && (n.contains(short) || short.contains(n) || close_name(n, short)))
             .collect();
         v.sort();
         v.dedup();
@@ -200,6 +200,16 @@ fn not_found(sig: &str) -> String {
     };
     let hint = if near.is_empty() { String::new() } else { format!("; similar names: {}", near.join(", ")) };
     format!("no function '{short}' takes ({args}){hint}")
+}
+
+/// A likely typo: one edit away, or two letters swapped.
+fn close_name(a: &str, b: &str) -> bool {
+    let sorted = |s: &str| {
+        let mut v: Vec<char> = s.chars().collect();
+        v.sort();
+        v
+    };
+    edit_distance(a, b) <= 1 || (a.len() == b.len() && sorted(a) == sorted(b) && edit_distance(a, b) <= 2)
 }
 
 /// Levenshtein distance (common practice), for "similar names" hints.

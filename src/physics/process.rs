@@ -135,7 +135,7 @@ impl Process {
     }
 
     fn parse_toml(text: &str, file: &str) -> Result<Process, String> {
-        let root: toml::Table = text.parse().map_err(|e: toml::de::Error| format!("{file}: not valid TOML: {}", e.to_string().trim_end()))?;
+        let root: toml::Table = text.parse().map_err(|e: toml::de::Error| toml_error(text, file, &e))?;
         let mut top = Reader::new(&root, "", file);
         let p = top.table("process")?;
         let mut pr = Reader::new(p, "process", file);
@@ -349,6 +349,20 @@ fn corner(t: &toml::Table, path: &str, file: &str, vdd: f64, tnom: f64) -> Resul
 
 fn as_table<'a>(v: &'a toml::Value, path: &str, file: &str) -> Result<&'a toml::Table, String> {
     v.as_table().ok_or_else(|| format!("{file}: '{path}' must be a table ([{path}]), found {}", a_type(v)))
+}
+
+/// A TOML syntax error as `file:line:col: not valid TOML: message`.
+fn toml_error(text: &str, file: &str, e: &toml::de::Error) -> String {
+    let msg = e.message().trim_end().replace('\n', "; ");
+    match e.span() {
+        Some(span) => {
+            let before = &text[..span.start.min(text.len())];
+            let line = before.matches('\n').count() + 1;
+            let col = before.rsplit('\n').next().map_or(0, |l| l.chars().count()) + 1;
+            format!("{file}:{line}:{col}: not valid TOML: {msg}")
+        }
+        None => format!("{file}: not valid TOML: {msg}"),
+    }
 }
 
 /// A TOML value's type with its article: "an integer", "a string".

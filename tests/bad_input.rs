@@ -1,0 +1,292 @@
+//! The bad-input corpus: every file under tests/bad_input/ is one case, run through the built
+//! binary in a scratch project. Its first lines say what it must produce:
+//!
+//! ```text
+//! // expect: exit 1, stderr contains "{file}:3:9: key 'c' must be > 0"
+//! // expect: stderr lacks "NaN"
+//! // args: --set C=abc
+//! ```
+//!
+//! - `.rhai` cases run as `tickwork run {file} [args]` from the project root;
+//! - `.repl` cases are piped into `tickwork repl [args]`;
+//! - `.toml` cases (comments start with `#`) are written under their own name and read by a
+//!   script, `process_file("{file}");` unless a `# script: CODE` line gives another one.
+//!
+//! Clauses: `exit N`, `stderr|stdout contains "TEXT"`, `stderr|stdout lacks "TEXT"`; `{file}`
+//! stands for the case's file name. Files in tests/bad_input/support/ are not cases: they are
+//! copied into every project (modules to import, process files to read).
+//!
+//! Every case is also checked for what must never happen: a panic (exit 101, "internal
+//! error"), an internal identifier in a message, NaN shown as a result, and a failed run that
+//! touches the previous report. A case that shows a bug in code owned elsewhere carries a
+//! `known-bug: REASON` line; it is skipped by `corpus` and run by the ignored `known_bugs`.
+mod cli_util;
+
+use std::path::{Path, PathBuf};
+use std::process::Output;
+
+use cli_util::{stderr, stdout, Project};
+
+const CORPUS: &str = concat!(env!("CARGO_MANIFEST_DIR"), "/tests/bad_input");
+
+/// Text no user should ever see: the engine's own hook names and Rhai's internal spellings.
+const INTERNAL: &[&str] = &["__override", "__section", "$get$", "$set$", "index$", "EvalAltResult", "panicked", "internal error", "RUST_BACKTRACE"];
+
+/// The report a previous run left; a failed run must leave it as it was.
+const PREVIOUS: &str = "# previous report (must survive a failed run)\n";
+
+#[derive(Debug, Default)]
+struct Case {
+    path: PathBuf,
+    name: String,
+    text: String,
+    exit: Option<i32>,
+    checks: Vec<(Stream, bool, String)>, // (stream, must contain?, text)
+    args: Vec<String>,
+    script: Option<String>,
+    known_bug: Option<String>,
+}
+
+#[derive(Debug, Clone, Copy, PartialEq)]
+enum Stream {
+    Stdout,
+    Stderr,
+}
+
+/// The quoted clauses of an `expect:` line, split at commas outside quotes.
+fn clauses(s: &str) -> Vec<String> {
+    let mut out = vec![String::new()];
+    let mut quoted = false;
+    let mut esc = false;
+    for c in s.chars() {
+        if esc {
+            out.last_mut().unwrap().push(c);
+            esc = false;
+            continue;
+        }
+        match c {
+            '\\' if quoted => {
+                out.last_mut().unwrap().push(c);
+                esc = true;
+            }
+            '"' => {
+                quoted = !quoted;
+                out.last_mut().unwrap().push(c);
+            }
+            ',' if !quoted => out.push(String::new()),
+            _ => out.last_mut().unwrap().push(c),
+        }
+    }
+    out.into_iter().map(|c| c.trim().to_string()).filter(|c| !c.is_empty()).collect()
+}
+
+fn unquote(s: &str, name: &str) -> Result<String, String> {
+    let s = s.trim();
+    let inner = s.strip_prefix('"').and_then(|s| s.strip_suffix('"')).ok_or_else(|| format!("expected a quoted text, found {s}"))?;
+    Ok(inner.replace("\\\"", "\"").replace("\\n", "\n").replace("\\\\", "\\").replace("{file}", name))
+}
+
+fn parse_case(path: &Path) -> Result<Case, String> {
+    let text = std::fs::read_to_string(path).map_err(|e| e.to_string())?;
+    let name = path.file_name().unwrap().to_string_lossy().to_string();
+    let marker = if name.ends_with(".toml") { "#" } else { "//" };
+    let mut case = Case { path: path.to_path_buf(), name: name.clone(), text: text.clone(), ..Default::default() };
+    let mut lines = text.lines();
+    let first = lines.next().unwrap_or("");
+    if !first.trim_start().starts_with(&format!("{marker} expect:")) {
+        return Err(format!("the first line must be `{marker} expect: ...`"));
+    }
+    for line in std::iter::once(first).chain(lines) {
+        let Some(body) = line.trim_start().strip_prefix(marker) else { break };
+        let body = body.trim();
+        if let Some(e) = body.strip_prefix("expect:") {
+            for c in clauses(e) {
+                if let Some(n) = c.strip_prefix("exit ") {
+                    case.exit = Some(n.trim().parse().map_err(|_| format!("bad exit code in '{c}'"))?);
+                    continue;
+                }
+                let (stream, rest) = if let Some(r) = c.strip_prefix("stderr ") {
+                    (Stream::Stderr, r)
+                } else if let Some(r) = c.strip_prefix("stdout ") {
+                    (Stream::Stdout, r)
+                } else {
+                    return Err(format!("unknown clause '{c}'"));
+                };
+                let (want, t) = if let Some(t) = rest.strip_prefix("contains ") {
+                    (true, t)
+                } else if let Some(t) = rest.strip_prefix("lacks ") {
+                    (false, t)
+                } else {
+                    return Err(format!("unknown clause '{c}'"));
+                };
+                case.checks.push((stream, want, unquote(t, &name)?));
+            }
+        } else if let Some(a) = body.strip_prefix("args:") {
+            case.args = a.split_whitespace().map(|s| s.replace("{file}", &name)).collect();
+        } else if let Some(s) = body.strip_prefix("script:") {
+            case.script = Some(s.trim().replace("{file}", &name));
+        } else if let Some(r) = body.strip_prefix("known-bug:") {
+            case.known_bug = Some(r.trim().to_string());
+        }
+    }
+    if case.exit.is_none() {
+        return Err("the expect line gives no exit code".into());
+    }
+    Ok(case)
+}
+
+fn corpus_files() -> Vec<PathBuf> {
+    fn walk(dir: &Path, out: &mut Vec<PathBuf>) {
+        let mut entries: Vec<_> = std::fs::read_dir(dir).unwrap().map(|e| e.unwrap().path()).collect();
+        entries.sort();
+        for p in entries {
+            if p.is_dir() {
+                if p.file_name().is_some_and(|n| n != "support") {
+                    walk(&p, out);
+                }
+            } else if p.extension().is_some_and(|e| e == "rhai" || e == "repl" || e == "toml") {
+                out.push(p);
+            }
+        }
+    }
+    let mut v = Vec::new();
+    walk(Path::new(CORPUS), &mut v);
+    v
+}
+
+/// A scratch project with the support files, the case file and a previous report.
+fn project_for(case: &Case) -> (Project, PathBuf) {
+    let p = Project::new();
+    let support = Path::new(CORPUS).join("support");
+    if let Ok(rd) = std::fs::read_dir(&support) {
+        for e in rd {
+            let e = e.unwrap().path();
+            let n = e.file_name().unwrap().to_string_lossy().to_string();
+            p.write(&n, &std::fs::read_to_string(&e).unwrap());
+        }
+    }
+    let stem = case.name.rsplit_once('.').map(|(s, _)| s).unwrap_or(&case.name).to_string();
+    let script = if case.name.ends_with(".toml") {
+        p.write(&case.name, &case.text);
+        let runner = format!("{stem}-run.rhai");
+        p.write(&runner, &case.script.clone().unwrap_or_else(|| format!("process_file(\"{}\");", case.name)));
+        runner
+    } else {
+        p.write(&case.name, &case.text);
+        case.name.clone()
+    };
+    let runner_stem = script.trim_end_matches(".rhai").to_string();
+    let prev = p.write(&format!("out/{runner_stem}/report.md"), PREVIOUS);
+    (p, prev)
+}
+
+fn run_case(case: &Case) -> Result<(), String> {
+    let (p, prev) = project_for(case);
+    let args: Vec<&str> = case.args.iter().map(|s| s.as_str()).collect();
+    let out: Output = if case.name.ends_with(".repl") {
+        p.repl_with(&case.text, &args)
+    } else {
+        let runner = if case.name.ends_with(".toml") {
+            format!("{}-run.rhai", case.name.trim_end_matches(".toml"))
+        } else {
+            case.name.clone()
+        };
+        let mut a = vec!["run", runner.as_str()];
+        a.extend(args.iter().copied());
+        p.tickwork(&a)
+    };
+    let (so, se) = (stdout(&out), stderr(&out));
+    let code = out.status.code().unwrap_or(-1);
+    let mut problems = Vec::new();
+    if Some(code) != case.exit {
+        problems.push(format!("exit code {code}, expected {}", case.exit.unwrap()));
+    }
+    for (stream, want, t) in &case.checks {
+        let hay = if *stream == Stream::Stderr { &se } else { &so };
+        if hay.contains(t.as_str()) != *want {
+            problems.push(format!("{:?} {} {t:?}", stream, if *want { "lacks" } else { "contains" }));
+        }
+    }
+    for bad in INTERNAL {
+        if se.contains(bad) || so.contains(bad) {
+            problems.push(format!("output shows the internal text {bad:?}"));
+        }
+    }
+    if so.contains("NaN") {
+        problems.push("stdout shows NaN as a result".into());
+    }
+    if code == 1 && !case.name.ends_with(".repl") {
+        let now = std::fs::read_to_string(&prev).unwrap_or_default();
+        if now != PREVIOUS {
+            problems.push("the failed run changed the previous report".into());
+        }
+    }
+    if problems.is_empty() {
+        Ok(())
+    } else {
+        Err(format!("{}:\n  {}\n  --- exit {code}\n  --- stderr:\n{se}\n  --- stdout:\n{so}", case.path.display(), problems.join("\n  ")))
+    }
+}
+
+fn run_all(known_bugs: bool) {
+    let files = corpus_files();
+    assert!(files.len() > 50, "the corpus has only {} cases", files.len());
+    let mut names = std::collections::BTreeMap::new();
+    let mut failures = Vec::new();
+    let mut ran = 0;
+    for f in &files {
+        let case = match parse_case(f) {
+            Ok(c) => c,
+            Err(e) => {
+                failures.push(format!("{}: {e}", f.display()));
+                continue;
+            }
+        };
+        if let Some(other) = names.insert(case.name.clone(), f.clone()) {
+            failures.push(format!("{}: same file name as {}", f.display(), other.display()));
+        }
+        if case.known_bug.is_some() != known_bugs {
+            continue;
+        }
+        ran += 1;
+        if let Err(e) = run_case(&case) {
+            failures.push(e);
+        }
+    }
+    eprintln!("bad_input: {ran} cases run of {} files", files.len());
+    assert!(failures.is_empty(), "{} of {ran} cases failed:\n\n{}", failures.len(), failures.join("\n\n"));
+}
+
+#[test]
+fn corpus() {
+    run_all(false);
+}
+
+#[test]
+#[ignore = "cases marked known-bug: bugs in src/timing/** and src/engine/timing_api.rs, owned by another developer"]
+fn known_bugs() {
+    run_all(true);
+}
+
+trait ReplArgs {
+    fn repl_with(&self, input: &str, args: &[&str]) -> Output;
+}
+
+impl ReplArgs for Project {
+    /// `tickwork repl ARGS` with `input` on a pipe.
+    fn repl_with(&self, input: &str, args: &[&str]) -> Output {
+        use std::io::Write;
+        use std::process::{Command, Stdio};
+        let mut child = Command::new(env!("CARGO_BIN_EXE_tickwork"))
+            .arg("repl")
+            .args(args)
+            .current_dir(self.path())
+            .stdin(Stdio::piped())
+            .stdout(Stdio::piped())
+            .stderr(Stdio::piped())
+            .spawn()
+            .expect("start repl");
+        child.stdin.take().unwrap().write_all(input.as_bytes()).unwrap();
+        child.wait_with_output().unwrap()
+    }
+}
