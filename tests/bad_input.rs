@@ -290,3 +290,92 @@ impl ReplArgs for Project {
         child.wait_with_output().unwrap()
     }
 }
+
+/// Random byte strings and random mutations of the demo scripts, evaluated in-process: every
+/// one must give a value or an error, never a panic. A fixed seed keeps failures repeatable.
+#[test]
+fn random_and_mutated_scripts_never_panic() {
+    use std::panic::{catch_unwind, AssertUnwindSafe};
+    // xorshift64* (Vigna 2016): small, fast and enough to pick edits.
+    struct Rng(u64);
+    impl Rng {
+        fn next(&mut self) -> u64 {
+            self.0 ^= self.0 >> 12;
+            self.0 ^= self.0 << 25;
+            self.0 ^= self.0 >> 27;
+            self.0.wrapping_mul(0x2545_F491_4F6C_DD1D)
+        }
+        fn below(&mut self, n: usize) -> usize {
+            (self.next() % n.max(1) as u64) as usize
+        }
+    }
+    const PIECES: &[&str] = &[
+        "0", "-1", "1e308", "0.0/0.0", "1.0/0.0", "-1p", "2K", "µ", "\"", "(", ")", "[", "]", "{", "}", "#{", ",", ";", "..",
+        "span(0, 1, 0)", "series([])", "\"pie\"", "true", "x", "/*", "*/", "///", "\n", "`${", "'", "_", "1.5.5", "2p5",
+        "#{c: -1p}", "[]", "osc(\"window\", #{})", "process_file(\"../x\")", "import \"y\" as z;",
+    ];
+    let dir = concat!(env!("CARGO_MANIFEST_DIR"), "/scripts");
+    let mut demos: Vec<String> = std::fs::read_dir(dir)
+        .unwrap()
+        .map(|e| e.unwrap().path())
+        .filter(|p| p.extension().is_some_and(|e| e == "rhai"))
+        .map(|p| std::fs::read_to_string(p).unwrap())
+        .collect();
+    demos.sort();
+    assert!(!demos.is_empty());
+    let mut rng = Rng(0x7469_636b_776f_726b);
+    let start = std::time::Instant::now();
+    let mut runs = 0;
+    let mut panics = Vec::new();
+    // A demo that takes long (a full error budget) is mutated only a few times.
+    let mut slow_runs = vec![0usize; demos.len()];
+    for k in 0..600 {
+        // Bounded in time as well as in count, so a slow machine still finishes quickly.
+        if start.elapsed().as_secs() >= 12 {
+            break;
+        }
+        let pick = rng.below(demos.len());
+        let text = if k % 4 == 0 || slow_runs[pick] >= 3 {
+            let n = rng.below(200);
+            let bytes: Vec<u8> = (0..n).map(|_| (rng.next() >> 24) as u8).collect();
+            String::from_utf8_lossy(&bytes).to_string()
+        } else {
+            let base = &demos[pick];
+            let mut chars: Vec<char> = base.chars().collect();
+            for _ in 0..1 + rng.below(4) {
+                let at = rng.below(chars.len() + 1);
+                match rng.below(4) {
+                    0 => {
+                        let len = rng.below(12).min(chars.len() - at.min(chars.len()));
+                        chars.drain(at..at + len);
+                    }
+                    1 => chars.splice(at..at, PIECES[rng.below(PIECES.len())].chars()).for_each(drop),
+                    2 if at < chars.len() => chars[at] = PIECES[rng.below(PIECES.len())].chars().next().unwrap_or(' '),
+                    _ => {
+                        // Replace a number with another value.
+                        if let Some(p) = chars[at.min(chars.len())..].iter().position(|c| c.is_ascii_digit()) {
+                            let s = at + p;
+                            chars.splice(s..s + 1, PIECES[rng.below(3)].chars()).for_each(drop);
+                        }
+                    }
+                }
+            }
+            chars.into_iter().collect()
+        };
+        runs += 1;
+        let t0 = std::time::Instant::now();
+        if catch_unwind(AssertUnwindSafe(|| {
+            let _ = cli_util::eval(&text);
+        }))
+        .is_err()
+        {
+            panics.push(text);
+        }
+        if k % 4 != 0 && t0.elapsed().as_millis() > 200 {
+            slow_runs[pick] += 1;
+        }
+    }
+    eprintln!("{runs} random or mutated scripts, {} s", start.elapsed().as_secs());
+    assert!(runs >= 100, "only {runs} scripts in the time budget");
+    assert!(panics.is_empty(), "{} of {runs} scripts panicked; the first:\n{}", panics.len(), panics[0]);
+}
