@@ -108,6 +108,14 @@ pub fn from_eval_in(sources: &Sources, file: &str, e: &EvalAltResult, max_ops: u
             "too many nested function calls (the limit is 64): a function that calls itself without end?".to_string()
         }
         EvalAltResult::ErrorParsing(t, _) => format!("syntax error: {t}"),
+        EvalAltResult::ErrorPropertyNotFound(k, _) => format!("the map has no key '{k}'"),
+        EvalAltResult::ErrorIndexingType(t, _) => {
+            let t = plain_types(t);
+            match t.split_once(" [") {
+                Some((what, idx)) => format!("a {what} cannot be indexed by a {}", idx.trim_end_matches(']')),
+                None => format!("cannot index {t}"),
+            }
+        }
         other => {
             let mut s = other.to_string();
             // Rhai appends " (line L, position C)" to some messages; positions are given separately.
