@@ -398,7 +398,7 @@ fn locate(text: &str, file: &str, msg: &str) -> String {
         }
         if current == table {
             let name = t.split(['=', ' ', '\t']).next().unwrap_or("").trim_matches('"');
-            if name == key && t[name.len()..].trim_start().starts_with('=') || (name == key && t.contains('=')) {
+            if name == key && t.contains('=') {
                 return format!("{file}:{}:{col}: {rest}", n + 1);
             }
         }
