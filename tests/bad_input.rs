@@ -379,3 +379,41 @@ fn random_and_mutated_scripts_never_panic() {
     assert!(runs >= 100, "only {runs} scripts in the time budget");
     assert!(panics.is_empty(), "{} of {runs} scripts panicked; the first:\n{}", panics.len(), panics[0]);
 }
+
+/// Every documented script function called with arguments of the wrong kind or count: an
+/// error naming the function (and listing its forms when no form matches), never a panic,
+/// never a result.
+#[test]
+fn every_function_rejects_wrong_arguments() {
+    use tickwork::engine::docs;
+    let mut names: Vec<&str> = docs::all().iter().map(|d| d.name).collect();
+    names.sort();
+    names.dedup();
+    let mut problems = Vec::new();
+    // Calls that are valid: Rhai's own len of a string and a map, the run's seed.
+    let valid = ["len(\"?\")", "len(#{zz: 1})", "seed()"];
+    for name in names {
+        // save_report with a valid name would write a report; its bad paths are corpus cases.
+        if name == "save_report" {
+            continue;
+        }
+        for args in ["", "\"?\"", "#{zz: 1}", "[], [], [], [], []"] {
+            let call = format!("{name}({args})");
+            let r = std::panic::catch_unwind(|| cli_util::eval(&call));
+            match r {
+                Err(_) => problems.push(format!("{call}: panicked")),
+                Ok(Ok(_)) if valid.contains(&call.as_str()) => {}
+                Ok(Ok(v)) => problems.push(format!("{call}: gave {v} instead of an error")),
+                Ok(Err(e)) => {
+                    if !e.contains(name) {
+                        problems.push(format!("{call}: the error does not name '{name}': {e}"));
+                    }
+                    if INTERNAL.iter().any(|t| e.contains(t)) || e.contains("i64") || e.contains("ImmutableString") {
+                        problems.push(format!("{call}: internal text in: {e}"));
+                    }
+                }
+            }
+        }
+    }
+    assert!(problems.is_empty(), "{}", problems.join("\n"));
+}
