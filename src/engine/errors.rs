@@ -122,7 +122,7 @@ pub fn from_eval_in(sources: &Sources, file: &str, e: &EvalAltResult, max_ops: u
             if let Some(k) = s.rfind(" (line ") {
                 s.truncate(k);
             }
-            plain_types(&s)
+            property_words(&plain_types(&s))
         }
     };
     // The innermost call first: "in 'g' called at f.rhai:3, in 'f' called at f.rhai:5".
@@ -173,6 +173,22 @@ pub fn plain_types(s: &str) -> String {
         out = out.replace(a, b);
     }
     out
+}
+
+/// Rhai's getter and setter wording as what the script did: `a int has no property 'p'`.
+fn property_words(s: &str) -> String {
+    let quoted = |t: &str, k: usize| t.split('\'').nth(k).map(str::to_string);
+    if s.starts_with("Unknown property '") && s.contains("a getter is not registered for type '") {
+        if let (Some(p), Some(t)) = (quoted(s, 1), quoted(s, 3)) {
+            return format!("{} has no property '{p}'", plain_types(&format!(" a {t}")).trim_start());
+        }
+    }
+    if s.starts_with("No writable property '") && s.contains("a setter is not registered for type '") {
+        if let (Some(p), Some(t)) = (quoted(s, 1), quoted(s, 3)) {
+            return format!("{} has no property '{p}' that can be set", plain_types(&format!(" a {t}")).trim_start());
+        }
+    }
+    s.to_string()
 }
 
 /// A call that matches no function: say which forms exist.
