@@ -201,7 +201,7 @@ fn not_found(sig: &str) -> String {
     let short = name.rsplit("::").next().unwrap_or(name);
     if short.starts_with("anon$") {
         return format!(
-            "the closure cannot be called with ({args}): it takes another number of parameters (a closure for map takes one: |x| ...)"
+            "the closure cannot be called with ({args}): it takes another number of parameters (s.map calls it with one: |x| ...)"
         );
     }
     if !short.starts_with(|c: char| c.is_alphabetic() || c == '_') {
@@ -216,7 +216,7 @@ fn not_found(sig: &str) -> String {
         let mut v: Vec<&str> = super::docs::all()
             .iter()
             .map(|d| d.name)
-            .filter(|n| n.len() > 2 && (n.contains(short) || short.contains(n) || close_name(n, short)))
+            .filter(|n| n.len() > 2 && ((short.len() > 2 && (n.contains(short) || short.contains(n))) || close_name(n, short)))
             .collect();
         v.sort();
         v.dedup();
