@@ -43,7 +43,8 @@ fn index(s: &Series, i: i64) -> R<usize> {
     let n = s.len() as i64;
     let k = if i < 0 { n + i } else { i };
     if k < 0 || k >= n {
-        return err(format!("index {i} is out of range for a Series of length {n}"));
+        let valid = if n == 0 { "it is empty".to_string() } else { format!("valid: 0..={} or -{n}..=-1 from the end", n - 1) };
+        return err(format!("index {i} is out of range for a Series of length {n} ({valid})"));
     }
     Ok(k as usize)
 }
