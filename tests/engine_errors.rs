@@ -29,7 +29,7 @@ fn runtime_error_position_and_message() {
 fn error_inside_a_function_names_the_call() {
     let e = run_err("fn f(x) {\n  x.quantile(2.0)\n}\nlet s = span(0, 1, 3);\nf(s);\n");
     assert!(e.contains("e.rhai:2:5: quantile p must be in [0, 1], got 2"), "{e}");
-    assert!(e.contains("in call to 'f' at line 5"), "{e}");
+    assert!(e.contains("in 'f' called at e.rhai:5"), "{e}");
 }
 
 #[test]

@@ -1,6 +1,7 @@
 //! `tickwork repl`: an interactive session. Variables and functions persist between entries;
 //! an unclosed bracket, string or comment continues on the next line; `help NAME` shows a
 //! function's signature and units. Reads a pipe too, so sessions can be scripted and tested.
+use std::collections::HashMap;
 use std::io::{BufRead, IsTerminal};
 use std::path::PathBuf;
 use std::sync::{Arc, Mutex};
@@ -14,7 +15,7 @@ use rustyline::validate::{ValidationContext, ValidationResult, Validator};
 use rustyline::{Context, Helper};
 
 use super::docs_cmd::{describe, similar};
-use crate::engine::errors::{from_eval, from_parse};
+use crate::engine::errors::{from_eval, from_eval_in, from_parse};
 use crate::engine::prepass::is_incomplete;
 use crate::engine::script::prepare_into_session;
 use crate::engine::session::{Session, Shared};
@@ -26,8 +27,8 @@ const CONTINUE: &str = "  ▹ ";
 
 #[derive(Args, Debug, Clone)]
 pub struct ReplArgs {
-    /// Stop an entry after this many operations
-    #[arg(long, default_value_t = engine::DEFAULT_MAX_OPS)]
+    /// Stop an entry after this many operations (at least 1)
+    #[arg(long, default_value_t = engine::DEFAULT_MAX_OPS, value_parser = clap::value_parser!(u64).range(1..))]
     pub max_ops: u64,
     /// Project root: files are read only below it (default: the current folder)
     #[arg(long, default_value = ".")]
@@ -45,6 +46,8 @@ pub struct Evaluator {
     pub session: Shared,
     entries: usize,
     max_ops: u64,
+    /// The entry each script function was defined in, for error positions.
+    fn_files: HashMap<String, String>,
 }
 
 impl Evaluator {
@@ -55,7 +58,7 @@ impl Evaluator {
         session.seed = a.seed;
         let session = Shared::new(session);
         let engine = engine::build(&session, a.max_ops);
-        Ok(Evaluator { engine, scope: Scope::new(), functions: AST::empty(), session, entries: 0, max_ops: a.max_ops })
+        Ok(Evaluator { engine, scope: Scope::new(), functions: AST::empty(), session, entries: 0, max_ops: a.max_ops, fn_files: HashMap::new() })
     }
 
     /// Names for completion: every registered function and every variable in scope.
@@ -115,12 +118,18 @@ impl Evaluator {
         for (alias, module) in self.imports(&ast, &file).map_err(Entry::Failed)? {
             self.engine.register_static_module(alias, module);
         }
+        let defined: Vec<String> = ast.iter_functions().map(|f| f.name.to_string()).collect();
         let mut ast = self.functions.merge(&ast);
         ast.set_source(file.as_str());
+        let mut fn_files = self.fn_files.clone();
+        for n in &defined {
+            fn_files.insert(n.clone(), file.clone());
+        }
         let result: Dynamic = self
             .engine
             .eval_ast_with_scope(&mut self.scope, &ast)
-            .map_err(|e| from_eval(&self.session.lock().sources, &file, &e, self.max_ops).to_string())?;
+            .map_err(|e| from_eval_in(&self.session.lock().sources, &file, &e, self.max_ops, &fn_files).to_string())?;
+        self.fn_files = fn_files;
         self.functions = self.functions.merge(&ast.clone_functions_only());
         // A trailing `;` asks for the statement's effect only, not its value.
         if result.is_unit() || t.ends_with(';') {
@@ -142,7 +151,7 @@ impl Evaluator {
                 .engine
                 .module_resolver()
                 .resolve(&self.engine, Some(&src), &path, rhai::Position::NONE)
-                .map_err(|e| format!("{file}: {e}"))?;
+                .map_err(|e| from_eval(&self.session.lock().sources, file, &e, self.max_ops).to_string())?;
             v.push((alias, m));
         }
         Ok(v)

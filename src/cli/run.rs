@@ -24,8 +24,8 @@ pub struct RunArgs {
     /// Seed of every random stream (Monte Carlo)
     #[arg(long, default_value_t = 1)]
     pub seed: u64,
-    /// Stop a script after this many operations
-    #[arg(long, default_value_t = engine::DEFAULT_MAX_OPS)]
+    /// Stop a script after this many operations (at least 1)
+    #[arg(long, default_value_t = engine::DEFAULT_MAX_OPS, value_parser = clap::value_parser!(u64).range(1..))]
     pub max_ops: u64,
     /// Project root: scripts read files only below it (default: the current folder)
     #[arg(long, default_value = ".")]
@@ -47,7 +47,9 @@ pub fn parse_sets(sets: &[String]) -> Result<BTreeMap<String, String>, String> {
         if k.is_empty() || !k.chars().all(|c| c.is_alphanumeric() || c == '_') {
             return Err(format!("--set {s}: '{k}' is not a constant name"));
         }
-        m.insert(k.to_string(), v.trim().to_string());
+        if m.insert(k.to_string(), v.trim().to_string()).is_some() {
+            return Err(format!("--set {k} is given twice; give each constant once"));
+        }
     }
     Ok(m)
 }

@@ -18,13 +18,14 @@ pub const DOCS: &[Doc] = &[
 ];
 
 pub fn register(engine: &mut Engine, shared: &Shared) {
-    engine.register_fn("eng", |x: Dynamic| -> R<String> { Ok(eng(to_f64(&x)?, "", 3)) });
-    engine.register_fn("eng", |x: Dynamic, unit: &str| -> R<String> { Ok(eng(to_f64(&x)?, unit, 3)) });
-    engine.register_fn("eng", |x: Dynamic, unit: &str, digits: i64| -> R<String> {
+    let x_of = |x: &Dynamic| -> R<f64> { to_f64(x).map_err(|_| format!("eng: x must be a number, found {}", x.type_name()).into()) };
+    engine.register_fn("eng", move |x: Dynamic| -> R<String> { Ok(eng(x_of(&x)?, "", 3)) });
+    engine.register_fn("eng", move |x: Dynamic, unit: &str| -> R<String> { Ok(eng(x_of(&x)?, unit, 3)) });
+    engine.register_fn("eng", move |x: Dynamic, unit: &str, digits: i64| -> R<String> {
         if !(1..=17).contains(&digits) {
             return Err(format!("eng: digits must be in 1..=17, got {digits}").into());
         }
-        Ok(eng(to_f64(&x)?, unit, digits as usize))
+        Ok(eng(x_of(&x)?, unit, digits as usize))
     });
     // Floats print in the shortest form that reads back exactly, with an exponent when very
     // small or large (2e-12, not 0.000000000002).
@@ -54,7 +55,11 @@ pub fn register(engine: &mut Engine, shared: &Shared) {
 fn override_value(name: &str, text: &str, default: &Dynamic) -> Result<Dynamic, String> {
     let bad = |what: &str| format!("--set {name}={text}: {name} is {what} in the script; '{text}' is not");
     if default.is_float() {
-        parse_number(text).map(Dynamic::from_float).map_err(|e| format!("--set {name}={text}: {e}"))
+        match parse_number(text) {
+            Ok(x) if x.is_finite() => Ok(Dynamic::from_float(x)),
+            Ok(_) => Err(format!("--set {name}={text}: the value is beyond the float range (about ±1.8e308)")),
+            Err(e) => Err(format!("--set {name}={text}: {e}")),
+        }
     } else if default.is_int() {
         match text.parse::<i64>() {
             Ok(i) => Ok(Dynamic::from_int(i)),
@@ -72,6 +77,12 @@ fn override_value(name: &str, text: &str, default: &Dynamic) -> Result<Dynamic, 
     } else if default.is_string() {
         Ok(Dynamic::from(text.to_string()))
     } else {
-        Err(format!("--set {name}: {name} is a {} in the script; only numbers, integers, booleans and strings can be set", default.type_name()))
+        Err(format!(
+            "--set {name}: {name} is {} in the script; only numbers, integers, booleans and strings can be set",
+            match default.type_name() {
+                "array" => "an array".to_string(),
+                t => format!("a {t}"),
+            }
+        ))
     }
 }

@@ -50,7 +50,13 @@ pub fn build(session: &Shared, max_ops: u64) -> Engine {
     // Rhai turns a printed value into text with its `print` function, then calls the hook.
     // Its own text of a float is 0.000000000002 for 2e-12; use the shortest form that reads
     // back exactly instead.
-    engine.register_fn("print", |x: f64| format!("{x:?}"));
+    // NaN is never shown as a result: printing one is an error that says where it came from.
+    engine.register_fn("print", |x: f64| -> Result<String, Box<rhai::EvalAltResult>> {
+        if x.is_nan() {
+            return Err("print: the value is NaN (not a number): an undefined result upstream (0/0, ln or sqrt of a negative number, inf - inf, the mean of nothing)".into());
+        }
+        Ok(format!("{x:?}"))
+    });
     engine.on_debug(|text, _src, pos| eprintln!("debug (line {}): {text}", pos.line().unwrap_or(0)));
 
     core_api::register(&mut engine, session);

@@ -130,6 +130,10 @@ pub fn prepare(src: &str, section_base: Option<usize>) -> Result<Prepared, Prepa
         prose_open = false;
         lx.line(line, ln, &mut code, &mut out, &mut pending_const)?;
     }
+    if lx.in_block_comment() {
+        let (line, col) = lx.comment_start;
+        return Err(PrepassError { line, col, message: "this /* comment is never closed (no */ before the end of the file)".into() });
+    }
     if pending_const.is_some() {
         code.push(')'); // a last `const` statement without its `;`
     }
@@ -212,6 +216,7 @@ enum StrKind {
 #[derive(Default)]
 struct Lexer {
     block_comment: usize, // nesting depth of /* */
+    comment_start: (usize, usize), // (line, col) of the outermost open /*
     strings: Vec<StrKind>, // open strings (back-tick strings can hold `${ code }`)
     brackets: Vec<Bracket>,
     last_token_was_const: bool,
@@ -292,6 +297,7 @@ impl Lexer {
                 }
                 '/' if at(i + 1) == '*' => {
                     self.block_comment = 1;
+                    self.comment_start = (ln, i + 1);
                     code.push_str("/*");
                     i += 2;
                 }
@@ -434,6 +440,11 @@ impl Lexer {
         if at(i) == '.' && at(i + 1).is_ascii_digit() {
             i += 1;
             digits(&mut i);
+            if at(i) == '.' && at(i + 1).is_ascii_digit() {
+                // `1.5.5`: a second decimal point.
+                let word: String = chars[start..].iter().take_while(|c| c.is_alphanumeric() || **c == '_' || **c == '.').collect();
+                return Err(PrepassError { line: ln, col: start + 1, message: format!("malformed number '{word}': more than one decimal point") });
+            }
         }
         // Exponent: `e` followed by digits (optionally signed). `e` alone would be a suffix.
         if at(i) == 'e'
@@ -453,7 +464,9 @@ impl Lexer {
             return Err(PrepassError {
                 line: ln,
                 col: start + 1,
-                message: format!("malformed number '{word}'"),
+                message: format!(
+                    "malformed number '{word}': a prefix or unit ends a number (write 2.5p, not 2p5)"
+                ),
             });
         }
         if i == s0 {

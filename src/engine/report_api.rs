@@ -1,6 +1,6 @@
 //! Registration of the report functions: `show`, `table`, `plot`, `metric`, `save_report`
 //! (and, through the print hook, `print`). Script values become plain report types here.
-use rhai::{Array, Dynamic, Engine, EvalAltResult, Map};
+use rhai::{Array, Dynamic, Engine, EvalAltResult, Map, NativeCallContext};
 
 use super::docs::Doc;
 use super::session::Shared;
@@ -56,7 +56,7 @@ fn opt_digits(what: &str, m: &Map) -> R<usize> {
         None => Ok(3),
         Some(v) => match v.as_int() {
             Ok(d) if (1..=17).contains(&d) => Ok(d as usize),
-            _ => err(format!("{what}: key 'digits' must be an integer in 1..=17, found {v}")),
+            _ => err(format!("{what}: key 'digits' must be an integer in 1..=17, found {v:?}")),
         },
     }
 }
@@ -75,9 +75,16 @@ fn as_series(v: &Dynamic) -> Option<Result<Series, String>> {
     )
 }
 
+/// Why a value is NaN, for the messages that refuse to show one.
+const NAN_WHY: &str = "an undefined result upstream (0/0, ln or sqrt of a negative number, inf - inf, the mean of nothing)";
+const NAN_VALUE: &str = "the value is NaN (not a number): an undefined result upstream (0/0, ln or sqrt of a negative number, inf - inf, the mean of nothing)";
+
 /// Text of a shown value.
 fn value_text(v: &Dynamic, unit: &str, full: bool, digits: usize) -> Result<String, String> {
     if let Some(x) = v.clone().try_cast::<f64>() {
+        if x.is_nan() {
+            return Err(NAN_VALUE.into());
+        }
         return Ok(format::value(x, unit, digits));
     }
     if let Some(i) = v.clone().try_cast::<i64>() {
@@ -88,6 +95,9 @@ fn value_text(v: &Dynamic, unit: &str, full: bool, digits: usize) -> Result<Stri
         let s = as_series(v).unwrap_or(Ok(Series::default()))?;
         if s.is_empty() {
             return Ok("empty series".into());
+        }
+        if let Some(k) = s.as_slice().iter().position(|x| x.is_nan()) {
+            return Err(format!("element {k} of the series is NaN; {}", NAN_WHY));
         }
         if full {
             let all: Vec<String> = s.as_slice().iter().map(|x| format::value(*x, unit, digits)).collect();
@@ -112,13 +122,21 @@ pub fn register(engine: &mut Engine, shared: &Shared) {
     // The plot font is registered when the engine starts; a failure shows at the first plot.
     let _ = plot::font::ensure();
     let s = shared.clone();
-    engine.register_fn("show", move |label: &str, v: Dynamic| -> R<()> { show(&s, label, &v, "", &Map::new()) });
+    engine.register_fn("show", move |ctx: NativeCallContext, label: &str, v: Dynamic| -> R<()> {
+        show(&s, label, &shown(&ctx, v), "", &Map::new())
+    });
     let s = shared.clone();
-    engine.register_fn("show", move |label: &str, v: Dynamic, unit: &str| -> R<()> { show(&s, label, &v, unit, &Map::new()) });
+    engine.register_fn("show", move |ctx: NativeCallContext, label: &str, v: Dynamic, unit: &str| -> R<()> {
+        show(&s, label, &shown(&ctx, v), unit, &Map::new())
+    });
     let s = shared.clone();
-    engine.register_fn("show", move |label: &str, v: Dynamic, opts: Map| -> R<()> { show(&s, label, &v, "", &opts) });
+    engine.register_fn("show", move |ctx: NativeCallContext, label: &str, v: Dynamic, opts: Map| -> R<()> {
+        show(&s, label, &shown(&ctx, v), "", &opts)
+    });
     let s = shared.clone();
-    engine.register_fn("show", move |label: &str, v: Dynamic, unit: &str, opts: Map| -> R<()> { show(&s, label, &v, unit, &opts) });
+    engine.register_fn("show", move |ctx: NativeCallContext, label: &str, v: Dynamic, unit: &str, opts: Map| -> R<()> {
+        show(&s, label, &shown(&ctx, v), unit, &opts)
+    });
 
     let s = shared.clone();
     engine.register_fn("table", move |data: Dynamic| -> R<()> { table(&s, &data, &Map::new()) });
@@ -137,6 +155,19 @@ pub fn register(engine: &mut Engine, shared: &Shared) {
     engine.register_fn("save_report", move |dir: &str| -> R<String> { save_report(&s, dir) });
 }
 
+/// An object of a registered type (oscillator, process, device) as the text its own
+/// `to_string` gives; every other value as it is.
+fn shown(ctx: &NativeCallContext, v: Dynamic) -> Dynamic {
+    let plain = v.is_float() || v.is_int() || v.is_string() || v.is_bool() || v.is_char() || v.is_unit() || v.is_array() || v.is_map() || v.is::<Series>();
+    if plain {
+        return v;
+    }
+    match ctx.call_fn::<String>("to_string", (v.clone(),)) {
+        Ok(t) => Dynamic::from(t),
+        Err(_) => Dynamic::from(ctx.engine().map_type_name(v.type_name()).to_string()),
+    }
+}
+
 fn show(s: &Shared, label: &str, v: &Dynamic, unit: &str, opts: &Map) -> R<()> {
     check_keys("show", opts, &["full", "digits"])?;
     let full = opt_bool("show", opts, "full")?;
@@ -153,12 +184,22 @@ fn show(s: &Shared, label: &str, v: &Dynamic, unit: &str, opts: &Map) -> R<()> {
 /// Cells of one column from a Series or an array of numbers, strings and booleans.
 fn cells(name: &str, v: &Dynamic) -> R<Vec<Cell>> {
     if let Some(s) = v.clone().try_cast::<Series>() {
+        if let Some(k) = s.as_slice().iter().position(|x| x.is_nan()) {
+            return err(format!("table: column '{name}', row {k} is NaN; {NAN_WHY}"));
+        }
         return Ok(s.as_slice().iter().map(|x| Cell::Num(*x)).collect());
     }
     let Some(a) = v.clone().try_cast::<Array>() else {
         return err(format!("table: column '{name}' must be a Series or an array, found {}", v.type_name()));
     };
-    a.iter().map(|x| cell(x).map_err(|t| format!("table: column '{name}' holds a {t}; cells are numbers, strings or booleans").into())).collect()
+    a.iter()
+        .enumerate()
+        .map(|(k, x)| match cell(x) {
+            Ok(Cell::Num(f)) if f.is_nan() => err(format!("table: column '{name}', row {k} is NaN; {NAN_WHY}")),
+            Ok(c) => Ok(c),
+            Err(t) => err(format!("table: column '{name}', row {k} holds a {t}; cells are numbers, strings or booleans")),
+        })
+        .collect()
 }
 
 fn cell(x: &Dynamic) -> Result<Cell, String> {
@@ -202,7 +243,11 @@ fn table(s: &Shared, data: &Dynamic, opts: &Map) -> R<()> {
             }
             for (name, col) in cols.iter_mut() {
                 let v = &m[name.as_str()];
-                col.push(cell(v).map_err(|t| format!("table: row {r}, key '{name}' holds a {t}; cells are numbers, strings or booleans"))?);
+                let c = cell(v).map_err(|t| format!("table: row {r}, key '{name}' holds a {t}; cells are numbers, strings or booleans"))?;
+                if matches!(c, Cell::Num(f) if f.is_nan()) {
+                    return err(format!("table: row {r}, key '{name}' is NaN; {NAN_WHY}"));
+                }
+                col.push(c);
             }
         }
     } else {
@@ -302,7 +347,7 @@ pub fn plot_from_map(m: &Map) -> R<Plot> {
         p.total_label = opt_str("plot", m, "total_label")?;
     }
     if let Some(b) = m.get("bins") {
-        p.bins = Some(b.as_int().ok().filter(|b| *b > 0).ok_or_else(|| format!("plot: key 'bins' must be a positive integer, found {b}"))? as usize);
+        p.bins = Some(b.as_int().ok().filter(|b| *b > 0).ok_or_else(|| format!("plot: key 'bins' must be an integer in 1..=1000, found {b:?}"))? as usize);
     }
     if let Some(n) = m.get("names") {
         p.names = if n.is_string() { vec![n.to_string()] } else { strings("names", n)? };

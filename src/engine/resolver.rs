@@ -50,9 +50,16 @@ impl ModuleResolver for Resolver {
         }
         let fail = |msg: String| Box::new(EvalAltResult::ErrorRuntime(msg.into(), pos));
         let (name, text) = self.load(path).map_err(fail)?;
-        let prepared = prepare(&text, None).map_err(|e| {
-            fail(format!("{name}:{}:{}: {}", e.line, e.col, e.message))
-        })?;
+        let prepared = match prepare(&text, None) {
+            Ok(p) => p,
+            Err(e) => {
+                // Located in the module file: its text with no rewrites, so columns are as written.
+                self.session.lock().sources.files.insert(name.clone(), (text, Default::default()));
+                let at = Position::new(e.line.min(u16::MAX as usize) as u16, e.col.min(u16::MAX as usize) as u16);
+                let inner = Box::new(EvalAltResult::ErrorRuntime(e.message.into(), at));
+                return Err(Box::new(EvalAltResult::ErrorInModule(name, inner, pos)));
+            }
+        };
         self.session.lock().sources.files.insert(name.clone(), (text, prepared.columns.clone()));
         let mut ast = engine.compile(&prepared.code).map_err(|e| {
             Box::new(EvalAltResult::ErrorInModule(name.clone(), Box::new(e.into()), pos))

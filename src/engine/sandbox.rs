@@ -11,6 +11,21 @@ pub struct Sandbox {
     pub script_dir: PathBuf,
 }
 
+/// `p` with `.` and `..` resolved by the text alone (no file-system look-up).
+fn lexical(p: &Path) -> PathBuf {
+    let mut out = PathBuf::new();
+    for c in p.components() {
+        match c {
+            Component::ParentDir => {
+                out.pop();
+            }
+            Component::CurDir => {}
+            other => out.push(other),
+        }
+    }
+    out
+}
+
 impl Sandbox {
     pub fn new(root: &Path, out: &Path, script_dir: &Path) -> Result<Self, String> {
         let root = root
@@ -21,13 +36,18 @@ impl Sandbox {
 
     /// The canonical path of a file a script may read, or why it may not.
     pub fn readable(&self, rel: &str) -> Result<PathBuf, String> {
+        let outside = || format!("'{rel}' is outside the project root {}; scripts may read only below it", self.root.display());
         let p = self.script_dir.join(rel);
+        // Judge the path as written first, so that a missing file outside the root is reported
+        // as outside (not as missing, which would tell what exists there).
+        if let Ok(dir) = self.script_dir.canonicalize()
+            && !lexical(&dir.join(rel)).starts_with(&self.root)
+        {
+            return Err(outside());
+        }
         let c = p.canonicalize().map_err(|e| format!("cannot open '{rel}': {e}"))?;
         if !c.starts_with(&self.root) {
-            return Err(format!(
-                "'{rel}' is outside the project root {}; scripts may read only below it",
-                self.root.display()
-            ));
+            return Err(outside());
         }
         Ok(c)
     }

@@ -44,7 +44,8 @@ fn index(s: &Series, i: i64) -> R<usize> {
     let n = s.len() as i64;
     let k = if i < 0 { n + i } else { i };
     if k < 0 || k >= n {
-        return err(format!("index {i} is out of range for a Series of length {n}"));
+        let valid = if n == 0 { "it is empty".to_string() } else { format!("valid: 0..={} or -{n}..=-1 from the end", n - 1) };
+        return err(format!("index {i} is out of range for a Series of length {n} ({valid})"));
     }
     Ok(k as usize)
 }
@@ -55,6 +56,28 @@ pub fn from_array(a: &Array) -> R<Series> {
         .enumerate()
         .map(|(k, v)| to_f64(v).map_err(|_| format!("element {k} of the array is a {}, not a number", v.type_name()).into()))
         .collect()
+}
+
+/// An end of a span: a finite number.
+fn end(f: &str, what: &str, v: &Dynamic) -> R<f64> {
+    let x = to_f64(v).map_err(|_| format!("{f}: {what} must be a number, found {}", v.type_name()))?;
+    if !x.is_finite() {
+        return err(format!("{f}: {what} must be a finite number, got {x}"));
+    }
+    Ok(x)
+}
+
+/// A reduction that has no value for fewer than `need` elements is an error, not NaN.
+fn reduce(s: &Series, what: &str, need: usize, f: impl Fn(&Series) -> f64) -> R<f64> {
+    if s.len() < need {
+        let n = s.len();
+        return err(if need == 1 {
+            format!("{what} of an empty series")
+        } else {
+            format!("{what} needs at least {need} elements; the series has {n}")
+        });
+    }
+    Ok(f(s))
 }
 
 fn lift(r: Result<Series, String>) -> R<Series> {
@@ -90,14 +113,17 @@ pub fn register(engine: &mut Engine) {
     engine.register_type_with_name::<Series>("Series");
 
     engine.register_fn("span", |a: Dynamic, b: Dynamic, n: i64| -> R<Series> {
-        let (a, b) = (to_f64(&a)?, to_f64(&b)?);
+        let (a, b) = (end("span", "a", &a)?, end("span", "b", &b)?);
         if !(1..=100_000_000).contains(&n) {
             return err(format!("span: n must be in 1..=100000000, got {n}"));
         }
         Ok(Series::span(a, b, n as usize))
     });
     engine.register_fn("span_log", |a: Dynamic, b: Dynamic, n: i64| -> R<Series> {
-        let (a, b) = (to_f64(&a)?, to_f64(&b)?);
+        let (a, b) = (end("span_log", "a", &a)?, end("span_log", "b", &b)?);
+        if !(a > 0.0 && b > 0.0) {
+            return err(format!("span_log needs both ends > 0, got a = {a} and b = {b}"));
+        }
         if !(1..=100_000_000).contains(&n) {
             return err(format!("span_log: n must be in 1..=100000000, got {n}"));
         }
@@ -141,10 +167,10 @@ pub fn register(engine: &mut Engine) {
     engine.register_fn("len", |s: &mut Series| s.len() as i64);
     engine.register_fn("is_empty", |s: &mut Series| s.is_empty());
     engine.register_fn("sum", |s: &mut Series| s.sum());
-    engine.register_fn("mean", |s: &mut Series| s.mean());
-    engine.register_fn("stdev", |s: &mut Series| s.stdev());
-    engine.register_fn("min", |s: &mut Series| s.min());
-    engine.register_fn("max", |s: &mut Series| s.max());
+    engine.register_fn("mean", |s: &mut Series| reduce(s, "mean", 1, Series::mean));
+    engine.register_fn("stdev", |s: &mut Series| reduce(s, "stdev", 2, Series::stdev));
+    engine.register_fn("min", |s: &mut Series| reduce(s, "min", 1, Series::min));
+    engine.register_fn("max", |s: &mut Series| reduce(s, "max", 1, Series::max));
     engine.register_fn("argmin", |s: &mut Series| -> R<i64> {
         s.argmin().map(|k| k as i64).ok_or_else(|| "argmin of an empty (or all-NaN) series".into())
     });
@@ -152,7 +178,8 @@ pub fn register(engine: &mut Engine) {
         s.argmax().map(|k| k as i64).ok_or_else(|| "argmax of an empty (or all-NaN) series".into())
     });
     engine.register_fn("quantile", |s: &mut Series, p: Dynamic| -> R<f64> {
-        s.quantile(to_f64(&p)?).map_err(|e| e.into())
+        let p = to_f64(&p).map_err(|_| format!("quantile: p must be a number in [0, 1], found {}", p.type_name()))?;
+        s.quantile(p).map_err(|e| e.into())
     });
     engine.register_fn("count", |s: &mut Series| s.as_slice().iter().filter(|x| **x != 0.0).count() as i64);
     engine.register_fn("select", |s: &mut Series, mask: Series| lift(s.select(&mask)));

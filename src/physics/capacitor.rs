@@ -22,7 +22,7 @@ impl Capacitor {
     /// A capacitor from explicit numbers (σ of a matched pair 0).
     pub fn new(c0: f64, vc1: f64, vc2: f64, tc1: f64, tc2: f64, tnom: f64) -> Result<Capacitor, String> {
         if !(c0.is_finite() && c0 > 0.0) {
-            return Err(format!("capacitor: c must be > 0 F, got {c0}"));
+            return Err(format!("capacitor: c must be > 0 F, got {}", crate::num::si::eng(c0, "F", 3)));
         }
         for (n, x, lim) in [("vc1", vc1, 0.1), ("vc2", vc2, 0.1), ("tc1", tc1, 1e-2), ("tc2", tc2, 1e-4)] {
             if !(x.is_finite() && x.abs() <= lim) {
@@ -39,7 +39,7 @@ impl Capacitor {
         let ct = pr.capacitor(kind)?;
         for (n, x) in [("w", w), ("l", l)] {
             if !(x.is_finite() && x > 0.0 && x <= 1e-2) {
-                return Err(format!("capacitor '{kind}': {n} must be in 0..0.01 m, got {x}"));
+                return Err(format!("capacitor '{kind}': {n} must be in 0 … 10.0 mm (exclusive of 0), got {}", super::mosfet::len(x)));
             }
         }
         let c0 = (ct.c_area * w * l + ct.c_perim * 2.0 * (w + l)) * pr.cap_scale;

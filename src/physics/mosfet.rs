@@ -66,10 +66,10 @@ impl Mos {
         p.check().map_err(|e| format!("{name}: {e}"))?;
         super::constants::check_temp(tnom).map_err(|e| format!("{name}: tnom: {e}"))?;
         if !(w.is_finite() && w >= p.wmin && w <= MAX_DIM) {
-            return Err(format!("{name}: w must be in {}..{MAX_DIM} m, got {w}", p.wmin));
+            return Err(format!("{name}: w must be in {} … {}, got {}", len(p.wmin), len(MAX_DIM), len(w)));
         }
         if !(l.is_finite() && l >= p.lmin && l <= MAX_DIM) {
-            return Err(format!("{name}: l must be in {}..{MAX_DIM} m, got {l}", p.lmin));
+            return Err(format!("{name}: l must be in {} … {}, got {}", len(p.lmin), len(MAX_DIM), len(l)));
         }
         Ok(Mos { kind, p, w, l, tnom })
     }
@@ -315,4 +315,9 @@ impl Mos {
     pub fn sigma_beta(&self) -> f64 {
         mismatch::pelgrom(self.p.abeta, self.w, self.l)
     }
+}
+
+/// A length for a message, in engineering notation: `220 nm`, `10.0 mm`.
+pub(crate) fn len(x: f64) -> String {
+    crate::num::si::eng(x, "m", 3)
 }

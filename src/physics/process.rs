@@ -131,7 +131,11 @@ impl Process {
 
     /// Parse a process description; `file` names the source in error messages.
     pub fn from_toml(text: &str, file: &str) -> Result<Process, String> {
-        let root: toml::Table = text.parse().map_err(|e: toml::de::Error| format!("{file}: not valid TOML: {}", e.to_string().trim_end()))?;
+        Self::parse_toml(text, file).map_err(|e| locate(text, file, &e))
+    }
+
+    fn parse_toml(text: &str, file: &str) -> Result<Process, String> {
+        let root: toml::Table = text.parse().map_err(|e: toml::de::Error| toml_error(text, file, &e))?;
         let mut top = Reader::new(&root, "", file);
         let p = top.table("process")?;
         let mut pr = Reader::new(p, "process", file);
@@ -344,7 +348,65 @@ fn corner(t: &toml::Table, path: &str, file: &str, vdd: f64, tnom: f64) -> Resul
 }
 
 fn as_table<'a>(v: &'a toml::Value, path: &str, file: &str) -> Result<&'a toml::Table, String> {
-    v.as_table().ok_or_else(|| format!("{file}: '{path}' must be a table ([{path}]), found a {}", v.type_str()))
+    v.as_table().ok_or_else(|| format!("{file}: '{path}' must be a table ([{path}]), found {}", a_type(v)))
+}
+
+/// A TOML syntax error as `file:line:col: not valid TOML: message`.
+fn toml_error(text: &str, file: &str, e: &toml::de::Error) -> String {
+    let msg = e.message().trim_end().replace('\n', "; ");
+    match e.span() {
+        Some(span) => {
+            let before = &text[..span.start.min(text.len())];
+            let line = before.matches('\n').count() + 1;
+            let col = before.rsplit('\n').next().map_or(0, |l| l.chars().count()) + 1;
+            format!("{file}:{line}:{col}: not valid TOML: {msg}")
+        }
+        None => format!("{file}: not valid TOML: {msg}"),
+    }
+}
+
+/// A TOML value's type with its article: "an integer", "a string".
+fn a_type(v: &toml::Value) -> String {
+    let t = v.type_str();
+    if t.starts_with(['a', 'e', 'i', 'o', 'u']) { format!("an {t}") } else { format!("a {t}") }
+}
+
+/// A number as a reader types it: `1e-6`, not `0.000001`.
+fn short(x: f64) -> String {
+    if x != 0.0 && x.is_finite() && (x.abs() < 1e-3 || x.abs() >= 1e6) { format!("{x:e}") } else { format!("{x}") }
+}
+
+/// `file:line:col: ` for the key that a message of the process reader names (`key 'nmos.kp'`),
+/// found by reading the text: the key's own line, or the header of its table when the key is
+/// missing. Messages that name no key, or keys written in inline tables, stay as they are.
+fn locate(text: &str, file: &str, msg: &str) -> String {
+    let Some(rest) = msg.strip_prefix(&format!("{file}: ")) else { return msg.to_string() };
+    let Some(k) = rest.find("key '").map(|k| k + 5) else { return msg.to_string() };
+    let Some(path) = rest[k..].split('\'').next() else { return msg.to_string() };
+    let (table, key) = path.rsplit_once('.').unwrap_or(("", path));
+    let mut current = String::new();
+    let mut header = if table.is_empty() { Some((1, 1)) } else { None };
+    for (n, line) in text.lines().enumerate() {
+        let t = line.trim_start();
+        let col = line.len() - t.len() + 1;
+        if let Some(h) = t.strip_prefix('[') {
+            current = h.split(']').next().unwrap_or("").trim().to_string();
+            if current == table {
+                header = Some((n + 1, col));
+            }
+            continue;
+        }
+        if current == table {
+            let name = t.split(['=', ' ', '\t']).next().unwrap_or("").trim_matches('"');
+            if name == key && t.contains('=') {
+                return format!("{file}:{}:{col}: {rest}", n + 1);
+            }
+        }
+    }
+    match header {
+        Some((l, c)) if rest.starts_with("missing key") => format!("{file}:{l}:{c}: {rest}"),
+        _ => msg.to_string(),
+    }
 }
 
 /// Reads the keys of one table, remembering which were used so leftovers are reported.
@@ -380,12 +442,12 @@ impl<'a> Reader<'a> {
         match self.t.get(key) {
             None => Ok(None),
             Some(toml::Value::String(s)) => Ok(Some(s.clone())),
-            Some(v) => Err(format!("{}: key '{}' must be a string, found a {}", self.file, self.full(key), v.type_str())),
+            Some(v) => Err(format!("{}: key '{}' must be a string, found {}", self.file, self.full(key), a_type(v))),
         }
     }
     fn num(&mut self, key: &'static str, lo: f64, hi: f64, unit: &str) -> Result<f64, String> {
         self.opt_num(key, lo, hi, unit)?.ok_or_else(|| {
-            format!("{}: missing key '{}' (a number in {lo}..{hi} {unit})", self.file, self.full(key))
+            format!("{}: missing key '{}' (a number in {}..{} {unit})", self.file, self.full(key), short(lo), short(hi))
         })
     }
     /// A number: a TOML float or integer, or a string with an SI prefix ("5n", "8.5m").
@@ -397,10 +459,10 @@ impl<'a> Reader<'a> {
             Some(toml::Value::Float(x)) => *x,
             Some(toml::Value::Integer(i)) => *i as f64,
             Some(toml::Value::String(s)) => crate::num::si::parse_number(s).map_err(|e| format!("{}: key '{full}': {e}", self.file))?,
-            Some(v) => return Err(format!("{}: key '{full}' must be a number, found a {}", self.file, v.type_str())),
+            Some(v) => return Err(format!("{}: key '{full}' must be a number, found {}", self.file, a_type(v))),
         };
         if !(x.is_finite() && x >= lo && x <= hi) {
-            return Err(format!("{}: key '{full}' = {x} is out of range; allowed {lo}..{hi} {unit}", self.file));
+            return Err(format!("{}: key '{full}' = {} is out of range; allowed {}..{} {unit}", self.file, short(x), short(lo), short(hi)));
         }
         Ok(Some(x))
     }

@@ -1,4 +1,5 @@
 //! Resistors with temperature and voltage coefficients.
+use super::mosfet::len;
 use super::mismatch;
 use super::process::Process;
 
@@ -35,10 +36,10 @@ impl Resistor {
     pub fn from_process(pr: &Process, layer: &str, w: f64, l: f64) -> Result<Resistor, String> {
         let ly = pr.resistor(layer)?;
         if !(w.is_finite() && w >= ly.wmin && w <= 1e-2) {
-            return Err(format!("resistor '{layer}': w must be in {}..0.01 m, got {w}", ly.wmin));
+            return Err(format!("resistor '{layer}': w must be in {} … 10.0 mm, got {}", len(ly.wmin), len(w)));
         }
         if !(l.is_finite() && l > 0.0 && l <= 1.0) {
-            return Err(format!("resistor '{layer}': l must be in 0..1 m, got {l}"));
+            return Err(format!("resistor '{layer}': l must be in 0 … 1 m (exclusive of 0), got {}", len(l)));
         }
         let mut r = Resistor::new(ly.rsh * l / w * pr.res_scale, ly.tc1, ly.tc2, ly.vc, pr.tnom)?;
         r.sigma = mismatch::pelgrom(ly.a_r, w, l);

@@ -33,7 +33,7 @@ impl Table {
         let n = first.cells.len();
         if let Some(c) = cols.iter().find(|c| c.cells.len() != n) {
             return Err(format!(
-                "table columns differ in length: '{}' has {} values, '{}' has {}",
+                "columns differ in length: '{}' has {} values, '{}' has {}",
                 first.name, n, c.name, c.cells.len()
             ));
         }
