@@ -153,7 +153,7 @@ fn bad_input_is_named() {
     let e = bad(Kind::Window, &[("c", 1e-12), ("i", 1e-6), ("v_lo", 0.4), ("v_hi", 1.2), ("r", 1e3)]);
     assert!(e.contains("unknown key 'r'") && e.contains("c, i, v_lo, v_hi"), "{e}");
     let e = bad(Kind::Window, &[("c", -1e-12), ("i", 1e-6), ("v_lo", 0.4), ("v_hi", 1.2)]);
-    assert!(e.contains("'c'") && e.contains("out of range (0, 0.001] F"), "{e}");
+    assert!(e.contains("osc(\"window\"): key 'c' (timing capacitance) = -1 pF is out of range (0, 1 mF]"), "{e}");
     let e = bad(Kind::Window, &[("c", 1e-12), ("v_lo", 0.4), ("v_hi", 1.2)]);
     assert!(e.contains("'i' is required"), "{e}");
     let e = bad(Kind::Window, &[("c", 1e-12), ("i", 1e-6), ("v_lo", 1.4), ("v_hi", 1.2)]);

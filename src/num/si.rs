@@ -87,6 +87,58 @@ pub fn eng(x: f64, unit: &str, digits: usize) -> String {
     }
 }
 
+/// Drop trailing zeros of a mantissa: `2.50µ` → `2.5µ`, `3.00` → `3`. For tick labels.
+pub fn trim_zeros(s: &str) -> String {
+    let split = s.find(|c: char| !(c.is_ascii_digit() || c == '.' || c == '-')).unwrap_or(s.len());
+    let (num, rest) = s.split_at(split);
+    if !num.contains('.') || num.contains('e') {
+        return s.to_string();
+    }
+    let t = num.trim_end_matches('0').trim_end_matches('.');
+    format!("{t}{rest}")
+}
+
+/// Units shown without an SI prefix (common practice: nobody writes "50 m%" or "2 kppm").
+const PLAIN_UNITS: &[&str] = &["%", "ppm", "ppb", "dB", "dBc", "dBc/Hz", "dBm", "°C", "degC", "°", "deg", "ppm/°C", "%/°C", "%/V", "ppm/V", "σ", "sigma"];
+
+/// Whether values in `unit` are written without an SI prefix.
+pub fn plain_unit(unit: &str) -> bool {
+    PLAIN_UNITS.contains(&unit)
+}
+
+/// `x` with `digits` significant digits and its unit: `3.33 µs`, `1.50 %`.
+pub fn value(x: f64, unit: &str, digits: usize) -> String {
+    if plain_unit(unit) {
+        format!("{} {unit}", plain(x, digits))
+    } else {
+        eng(x, unit, digits)
+    }
+}
+
+/// `digits` significant digits without a prefix; exponent form outside 1e-4 … 1e9.
+pub fn plain(x: f64, digits: usize) -> String {
+    let digits = digits.clamp(1, 17);
+    if !x.is_finite() {
+        return eng(x, "", digits);
+    }
+    if x == 0.0 {
+        return "0".into();
+    }
+    let rounded: f64 = format!("{:.*e}", digits - 1, x).parse().unwrap_or(x);
+    let e = rounded.abs().log10().floor() as i32;
+    if !(-4..9).contains(&e) {
+        return format!("{:.*e}", digits - 1, rounded);
+    }
+    let decimals = (digits as i32 - 1 - e).max(0) as usize;
+    format!("{rounded:.decimals$}")
+}
+
+/// A value for a message: up to 6 significant digits with an SI prefix, trailing zeros
+/// dropped, so that limits read as written (`1 mF`, `-1 pF`, `2.5 µs`).
+pub fn eng_exact(x: f64, unit: &str) -> String {
+    trim_zeros(&value(x, unit, 6))
+}
+
 /// The power of a unit written with a superscript: 2 for `m²`, 3 for `m³`, else 1.
 fn unit_power(unit: &str) -> i32 {
     match unit.chars().last() {
@@ -116,6 +168,13 @@ fn eng_power(x: f64, unit: &str, digits: usize, power: i32) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
+    #[test]
+    fn exact_form_for_messages() {
+        assert_eq!(eng_exact(-1e-12, "F"), "-1 pF");
+        assert_eq!(eng_exact(0.001, "F"), "1 mF");
+        assert_eq!(eng_exact(2.5e-6, "s"), "2.5 µs");
+        assert_eq!(eng_exact(-40.0, "°C"), "-40 °C");
+    }
     #[test]
     fn formats_areas_with_the_prefix_on_the_length() {
         // 1 µm² = 1e-12 m² (SI Brochure: a prefix binds to its unit before the power).

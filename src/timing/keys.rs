@@ -1,6 +1,7 @@
 //! Topology kinds and their parameter keys: units, defaults, ranges, and which parasitic each
 //! key belongs to. A map with only the basic keys is the ideal circuit.
 use std::collections::BTreeMap;
+use crate::num::si::eng_exact;
 
 use super::parasitic::Parasitic;
 
@@ -24,6 +25,15 @@ pub enum Mode {
 }
 
 impl Kind {
+    /// How a script names this oscillator in messages: `osc("window")` for explicit numbers,
+    /// `osc_from("window")` for process devices.
+    pub fn caller(self, mode: Mode) -> String {
+        match mode {
+            Mode::Explicit => format!("osc(\"{}\")", self.name()),
+            Mode::Process => format!("osc_from(\"{}\")", self.name()),
+        }
+    }
+
     /// Keys this kind accepts in `mode`.
     pub fn keys_for(self, mode: Mode) -> &'static [&'static str] {
         match mode {
@@ -228,18 +238,14 @@ impl Params {
         let mut given = BTreeMap::new();
         for (k, v) in pairs {
             let Some(name) = keys.iter().copied().find(|n| n == k) else {
-                return Err(format!(
-                    "osc(\"{}\"): unknown key '{k}'; valid keys are: {}",
-                    kind.name(),
-                    keys.join(", ")
-                ));
+                return Err(format!("{}: unknown key '{k}'; valid keys are: {}", kind.caller(mode), keys.join(", ")));
             };
             let d = def(name).ok_or_else(|| format!("internal: key '{name}' has no definition"))?;
-            check_range(kind, d, *v)?;
+            check_range(d, *v).map_err(|e| format!("{}: {e}", kind.caller(mode)))?;
             given.insert(name, *v);
         }
         let p = Params { kind, mode, given };
-        p.check_required()?;
+        p.check_required().map_err(|e| format!("{}: {e}", kind.caller(mode)))?;
         Ok(p)
     }
 
@@ -254,19 +260,18 @@ impl Params {
     }
 
     fn check_required(&self) -> Result<(), String> {
-        let kind = self.kind.name();
         let need = |k: &str| -> Result<(), String> {
-            if self.has(k) { Ok(()) } else { Err(format!("osc(\"{kind}\"): key '{k}' is required")) }
+            if self.has(k) { Ok(()) } else { Err(format!("key '{k}' is required")) }
         };
         need("c")?;
         match self.kind {
             Kind::RcInverter => {
                 need("r")?;
                 if self.has("v_th") && (self.has("vtn") || self.has("vtp")) {
-                    return Err(format!("osc(\"{kind}\"): give the threshold either as 'v_th' or through 'vtn'/'vtp', not both"));
+                    return Err(format!("give the threshold either as 'v_th' or through 'vtn'/'vtp', not both"));
                 }
                 if self.has("vtn") != self.has("vtp") {
-                    return Err(format!("osc(\"{kind}\"): 'vtn' and 'vtp' go together"));
+                    return Err(format!("'vtn' and 'vtp' go together"));
                 }
             }
             Kind::Window => {
@@ -280,8 +285,8 @@ impl Params {
             }
             Kind::Schmitt => {
                 match (self.has("i"), self.has("r")) {
-                    (true, true) => return Err(format!("osc(\"{kind}\"): give either 'i' (current-starved) or 'r' (RC), not both")),
-                    (false, false) => return Err(format!("osc(\"{kind}\"): key 'i' (current-starved) or 'r' (RC) is required")),
+                    (true, true) => return Err(format!("give either 'i' (current-starved) or 'r' (RC), not both")),
+                    (false, false) => return Err(format!("key 'i' (current-starved) or 'r' (RC) is required")),
                     _ => {}
                 }
                 let explicit = self.has("v_lo") || self.has("v_hi");
@@ -291,7 +296,7 @@ impl Params {
                     return Ok(());
                 }
                 if explicit && derived {
-                    return Err(format!("osc(\"{kind}\"): give the thresholds either as 'v_lo'/'v_hi' or through 'vtn'/'vtp', not both"));
+                    return Err(format!("give the thresholds either as 'v_lo'/'v_hi' or through 'vtn'/'vtp', not both"));
                 }
                 if derived {
                     need("vtn")?;
@@ -303,11 +308,11 @@ impl Params {
                 if self.has("r") {
                     for k in ["r_out", "i_mismatch", "c_swn", "c_swp", "tc_i"] {
                         if self.has(k) {
-                            return Err(format!("osc(\"{kind}\"): key '{k}' applies to current charging ('i'), not to RC charging ('r')"));
+                            return Err(format!("key '{k}' applies to current charging ('i'), not to RC charging ('r')"));
                         }
                     }
                 } else if self.has("tc_r") {
-                    return Err(format!("osc(\"{kind}\"): key 'tc_r' applies to RC charging ('r'), not to current charging ('i')"));
+                    return Err(format!("key 'tc_r' applies to RC charging ('r'), not to current charging ('i')"));
                 }
             }
         }
@@ -338,6 +343,19 @@ impl Params {
         self.given.iter().map(|(k, v)| (*k, *v))
     }
 
+    /// The given keys of the parasitics in `groups`, as `name = value unit` (engineering
+    /// notation), for messages.
+    pub fn given_in(&self, groups: &[Parasitic]) -> Vec<String> {
+        self.given
+            .iter()
+            .filter_map(|(k, v)| {
+                let d = def(k)?;
+                let unit = if d.unit == "1" { "" } else { d.unit };
+                (d.group.is_some_and(|g| groups.contains(&g))).then(|| format!("{k} = {}", eng_exact(*v, unit).trim_end()))
+            })
+            .collect()
+    }
+
     /// Whether any key of parasitic `p` was given a value other than its ideal default.
     pub fn sets(&self, p: Parasitic) -> bool {
         self.given.iter().any(|(k, v)| {
@@ -346,19 +364,15 @@ impl Params {
     }
 }
 
-fn check_range(kind: Kind, d: &KeyDef, v: f64) -> Result<(), String> {
+fn check_range(d: &KeyDef, v: f64) -> Result<(), String> {
     let lo_ok = if d.open_min { v > d.min } else { v >= d.min };
     if v.is_nan() || !lo_ok || v > d.max {
         let lb = if d.open_min { "(" } else { "[" };
-        let unit = if d.unit == "1" { String::new() } else { format!(" {}", d.unit) };
-        return Err(format!(
-            "osc(\"{}\"): key '{}' ({}) = {v}{unit} is out of range {lb}{}, {}]{unit}",
-            kind.name(),
-            d.name,
-            d.what,
-            d.min,
-            d.max
-        ));
+        let unit = if d.unit == "1" { "" } else { d.unit };
+        // Bounds and value each with their unit (and prefix): `(0, 1 mF]`, `= -500 mV`.
+        let show = |x: f64| if x == 0.0 { "0".to_string() } else { eng_exact(x, unit).trim_end().to_string() };
+        let value = eng_exact(v, unit).trim_end().to_string();
+        return Err(format!("key '{}' ({}) = {value} is out of range {lb}{}, {}]", d.name, d.what, show(d.min), show(d.max)));
     }
     Ok(())
 }

@@ -128,7 +128,7 @@ impl Osc {
             .filter(|p| params.sets(**p) || inherent.contains(p))
             .fold(Mask::NONE, |m, p| m.with(*p));
         let o = Osc { params, env, parts, origin, inherent, present };
-        o.check()?;
+        o.check().map_err(|e| format!("{}: {e}", o.caller()))?;
         Ok(o)
     }
 
@@ -189,16 +189,34 @@ impl Osc {
 
     /// The textbook period of the topology from its basic keys.
     pub fn ideal_period(&self) -> Result<f64, String> {
-        topology::ideal_period(self)
+        topology::ideal_period(self).map_err(|e| format!("{}: {e}", self.caller()))
     }
 
     /// The cycle in periodic steady state with the parasitics of `mask` switched on.
     pub fn cycle(&self, mask: Mask) -> Result<Cycle, String> {
-        let c = topology::cycle(&View { o: self, m: mask, env: &self.env })?;
+        let c = topology::cycle(&View { o: self, m: mask, env: &self.env }).map_err(|e| self.explain(e))?;
         if !(c.period > 0.0 && c.period.is_finite()) {
-            return Err(format!("osc(\"{}\"): the period came out as {} s", self.kind().name(), c.period));
+            return Err(format!("{}: the period came out as {} s", self.caller(), c.period));
         }
         Ok(c)
+    }
+
+    /// How a script names this oscillator in messages: `osc("window")` or `osc_from("window")`.
+    pub fn caller(&self) -> String {
+        self.kind().caller(self.params.mode)
+    }
+
+    /// A model error as the user should read it: which oscillator, and for a ramp that never
+    /// reaches its threshold, the keys that shape the current into the node.
+    fn explain(&self, e: String) -> String {
+        let mut msg = format!("{}: {e}", self.caller());
+        if e.contains("stops:") {
+            let keys = self.params.given_in(&[Parasitic::MirrorRout, Parasitic::Mismatch, Parasitic::ResVc]);
+            if !keys.is_empty() {
+                msg.push_str(&format!("; the keys that shape that current are {}", keys.join(", ")));
+            }
+        }
+        msg
     }
 
     /// The period with every parasitic, s.
@@ -209,23 +227,22 @@ impl Osc {
     /// Relations between keys that single-key ranges cannot check.
     fn check(&self) -> Result<(), String> {
         let p = &self.params;
-        let kind = self.kind().name();
         let vdd = self.env.vdd;
         if p.has("v_lo") || p.has("v_hi") {
             let (lo, hi) = (p.get("v_lo"), p.get("v_hi"));
             let lo = if lo.is_nan() { 0.0 } else { lo };
             if lo >= hi {
-                return Err(format!("osc(\"{kind}\"): 'v_lo' = {lo} V must be below 'v_hi' = {hi} V"));
+                return Err(format!("'v_lo' = {lo} V must be below 'v_hi' = {hi} V"));
             }
             if hi > vdd {
-                return Err(format!("osc(\"{kind}\"): 'v_hi' = {hi} V must not exceed 'vdd' = {vdd} V"));
+                return Err(format!("'v_hi' = {hi} V must not exceed 'vdd' = {vdd} V"));
             }
         }
         if self.kind() == Kind::RcInverter && p.has("v_th") && p.get("v_th") >= vdd {
-            return Err(format!("osc(\"{kind}\"): 'v_th' = {} V must lie in (0, vdd = {vdd} V)", p.get("v_th")));
+            return Err(format!("'v_th' = {} V must lie in (0, vdd = {vdd} V)", p.get("v_th")));
         }
         if self.kind() == Kind::Reset && p.get("r_reset") > 0.0 && p.get("t_reset") == 0.0 {
-            return Err(format!("osc(\"{kind}\"): 'r_reset' > 0 needs a reset pulse 't_reset' > 0 to discharge the capacitor"));
+            return Err(format!("'r_reset' > 0 needs a reset pulse 't_reset' > 0 to discharge the capacitor"));
         }
         Ok(())
     }

@@ -55,10 +55,10 @@ fn ramp_phase(
 
 /// Error if a current-source node leaves the supply range (the sources would saturate there,
 /// which the model does not describe).
-fn check_rails(kind: &str, c: &Cycle, vdd: f64) -> Result<(), String> {
+fn check_rails(c: &Cycle, vdd: f64) -> Result<(), String> {
     if c.v_peak > vdd || c.v_valley < 0.0 {
         return Err(format!(
-            "osc(\"{kind}\"): the node swings from {:.4} V to {:.4} V, outside the supply 0…{vdd} V: the current sources would saturate (the delay chain is too slow for this ramp, or the thresholds sit too close to a rail)",
+            "the node swings from {:.4} V to {:.4} V, outside the supply 0…{vdd} V: the current sources would saturate (the delay chain is too slow for this ramp, or the thresholds sit too close to a rail)",
             c.v_valley, c.v_peak
         ));
     }

@@ -42,7 +42,7 @@ pub(crate) fn node<'a>(v: &'a View<'_>) -> Result<Node<'a>, String> {
     let vl = v_reset(o);
     let vref = o.params.get("v_hi") + v.vos_hi();
     if vref <= vl {
-        return Err(format!("osc(\"pingpong\"): the threshold with offset, {vref:.4} V, is not above the reset level {vl} V"));
+        return Err(format!("the threshold with offset, {vref:.4} V, is not above the reset level {vl} V"));
     }
     let scale_b = if v.on(Parasitic::CapMismatch) { 1.0 + v.p("c_mismatch") } else { 1.0 };
     let r_reset = if v.on(Parasitic::Reset) { o.parts.r_reset } else { 0.0 };
@@ -87,6 +87,6 @@ pub fn cycle(v: &View) -> Result<Cycle, String> {
         phases: vec![a, b],
         iterations,
     };
-    check_rails("pingpong", &cy, v.env.vdd)?;
+    check_rails(&cy, v.env.vdd)?;
     Ok(cy)
 }

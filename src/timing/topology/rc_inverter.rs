@@ -39,7 +39,7 @@ fn resistance(o: &Osc) -> f64 {
 pub fn ideal(o: &Osc) -> Result<f64, String> {
     let vt = threshold(o);
     if !(vt > 0.0 && vt < o.env.vdd) {
-        return Err(format!("osc(\"rc-inverter\"): the threshold {vt} V must lie in (0, vdd = {} V)", o.env.vdd));
+        return Err(format!("the threshold {vt} V must lie in (0, vdd = {} V)", o.env.vdd));
     }
     Ok(ideal_formula(resistance(o), o.parts.cap.nominal(&o.env), o.env.vdd, vt))
 }
@@ -62,7 +62,7 @@ pub(crate) fn node<'a>(v: &'a View<'_>) -> Result<Node<'a>, String> {
     let vdd = v.env.vdd;
     let vt = threshold(o) + v.vos_hi();
     if !(vt > 0.0 && vt < vdd) {
-        return Err(format!("osc(\"rc-inverter\"): the threshold with its shift, {vt:.4} V, must lie in (0, vdd = {vdd} V)"));
+        return Err(format!("the threshold with its shift, {vt:.4} V, must lie in (0, vdd = {vdd} V)"));
     }
     let c0 = o.parts.cap.nominal(v.env);
     // X sees C (to B) plus the inverter input capacitance to ground; a step of B divides

@@ -43,7 +43,7 @@ pub(crate) fn node<'a>(v: &'a View<'_>) -> Result<Node<'a>, String> {
     let vl = v_reset(o);
     let vref = o.params.get("v_hi") + v.vos_hi();
     if vref <= vl {
-        return Err(format!("osc(\"reset\"): the threshold with offset, {vref:.4} V, is not above the reset level {vl} V"));
+        return Err(format!("the threshold with offset, {vref:.4} V, is not above the reset level {vl} V"));
     }
     let (t_reset, r_reset) = if v.on(Parasitic::Reset) { (v.p("t_reset"), o.parts.r_reset) } else { (0.0, 0.0) };
     Ok(Node {
@@ -69,7 +69,7 @@ pub fn cycle(v: &View) -> Result<Cycle, String> {
     };
     let ((a, b), iterations) = steady(|[x]| one(x).map(|(a, b)| ([b.v_end], (a, b))), [vl])?;
     if b.v_end >= vref {
-        return Err(format!("osc(\"reset\"): the reset pulse leaves the node at {:.4} V, above the threshold {vref:.4} V: the reset is too short or its switch too weak", b.v_end));
+        return Err(format!("the reset pulse leaves the node at {:.4} V, above the threshold {vref:.4} V: the reset is too short or its switch too weak", b.v_end));
     }
     let period = a.ramp + a.delay + b.delay;
     let cy = Cycle {
@@ -81,6 +81,6 @@ pub fn cycle(v: &View) -> Result<Cycle, String> {
         phases: vec![a, b],
         iterations,
     };
-    check_rails("reset", &cy, v.env.vdd)?;
+    check_rails(&cy, v.env.vdd)?;
     Ok(cy)
 }

@@ -52,12 +52,11 @@ pub fn ideal(o: &Osc) -> Result<f64, String> {
 }
 
 pub(crate) fn check_levels(o: &Osc, lo: f64, hi: f64) -> Result<(), String> {
-    let kind = o.kind().name();
     if lo.is_nan() || hi.is_nan() || lo >= hi {
-        return Err(format!("osc(\"{kind}\"): the low threshold {lo:.4} V is not below the high threshold {hi:.4} V"));
+        return Err(format!("the low threshold {lo:.4} V is not below the high threshold {hi:.4} V"));
     }
     if rc_mode(o) && !(lo > 0.0 && hi < o.env.vdd) {
-        return Err(format!("osc(\"{kind}\"): an RC oscillator needs both thresholds strictly inside (0, vdd = {} V); they are {lo:.4} V and {hi:.4} V", o.env.vdd));
+        return Err(format!("an RC oscillator needs both thresholds strictly inside (0, vdd = {} V); they are {lo:.4} V and {hi:.4} V", o.env.vdd));
     }
     Ok(())
 }
@@ -97,7 +96,6 @@ pub(crate) fn node<'a>(v: &'a View<'_>) -> Result<Node<'a>, String> {
 }
 
 pub fn cycle(v: &View) -> Result<Cycle, String> {
-    let o = v.o;
     let n = node(v)?;
     let (lo, hi, rc, vdd) = (n.lo, n.hi, n.rc, v.env.vdd);
     let d_hi = |s: f64| v.delay_hi(s) + v.chain(n.latch);
@@ -119,7 +117,7 @@ pub fn cycle(v: &View) -> Result<Cycle, String> {
         iterations,
     };
     if !rc {
-        check_rails(o.kind().name(), &cy, vdd)?;
+        check_rails(&cy, vdd)?;
     }
     Ok(cy)
 }

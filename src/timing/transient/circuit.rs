@@ -144,7 +144,7 @@ fn reset_circuit<'a>(v: &'a View<'_>) -> Result<Circuit<'a>, String> {
             rate: [rate(&n.up, &n.c), zero()],
             end: End::Threshold { node: 0, level: n.vref, rising: true, cmp: Box::new(move |s| v.delay_hi(s)), chain: v.chain(false) },
             jump: if n.r_reset > 0.0 { None } else { Some(Box::new(move |[_, y]| [vl, y])) },
-            no_early_trip: Some("osc(\"reset\"): the charge phase starts at or above its threshold: the reset pulse is too short or its switch too weak (or the start voltage v0 is above the threshold)"),
+            no_early_trip: Some("the charge phase starts at or above its threshold: the reset pulse is too short or its switch too weak (or the start voltage v0 is above the threshold)"),
             rest: None,
         },
         Phase { name: "reset", rate: [during, zero()], end: End::Timed(n.t_reset), jump: None, no_early_trip: None, rest: None },
