@@ -178,16 +178,14 @@ pub fn plain_types(s: &str) -> String {
 /// Rhai's getter and setter wording as what the script did: `a int has no property 'p'`.
 fn property_words(s: &str) -> String {
     let quoted = |t: &str, k: usize| t.split('\'').nth(k).map(str::to_string);
-    if s.starts_with("Unknown property '") && s.contains("a getter is not registered for type '") {
-        if let (Some(p), Some(t)) = (quoted(s, 1), quoted(s, 3)) {
+    if s.starts_with("Unknown property '") && s.contains("a getter is not registered for type '")
+        && let (Some(p), Some(t)) = (quoted(s, 1), quoted(s, 3)) {
             return format!("{} has no property '{p}'", plain_types(&format!(" a {t}")).trim_start());
         }
-    }
-    if s.starts_with("No writable property '") && s.contains("a setter is not registered for type '") {
-        if let (Some(p), Some(t)) = (quoted(s, 1), quoted(s, 3)) {
+    if s.starts_with("No writable property '") && s.contains("a setter is not registered for type '")
+        && let (Some(p), Some(t)) = (quoted(s, 1), quoted(s, 3)) {
             return format!("{} has no property '{p}' that can be set", plain_types(&format!(" a {t}")).trim_start());
         }
-    }
     s.to_string()
 }
 

@@ -268,10 +268,10 @@ impl Params {
             Kind::RcInverter => {
                 need("r")?;
                 if self.has("v_th") && (self.has("vtn") || self.has("vtp")) {
-                    return Err(format!("give the threshold either as 'v_th' or through 'vtn'/'vtp', not both"));
+                    return Err("give the threshold either as 'v_th' or through 'vtn'/'vtp', not both".to_string());
                 }
                 if self.has("vtn") != self.has("vtp") {
-                    return Err(format!("'vtn' and 'vtp' go together"));
+                    return Err("'vtn' and 'vtp' go together".to_string());
                 }
             }
             Kind::Window => {
@@ -285,8 +285,8 @@ impl Params {
             }
             Kind::Schmitt => {
                 match (self.has("i"), self.has("r")) {
-                    (true, true) => return Err(format!("give either 'i' (current-starved) or 'r' (RC), not both")),
-                    (false, false) => return Err(format!("key 'i' (current-starved) or 'r' (RC) is required")),
+                    (true, true) => return Err("give either 'i' (current-starved) or 'r' (RC), not both".to_string()),
+                    (false, false) => return Err("key 'i' (current-starved) or 'r' (RC) is required".to_string()),
                     _ => {}
                 }
                 let explicit = self.has("v_lo") || self.has("v_hi");
@@ -296,7 +296,7 @@ impl Params {
                     return Ok(());
                 }
                 if explicit && derived {
-                    return Err(format!("give the thresholds either as 'v_lo'/'v_hi' or through 'vtn'/'vtp', not both"));
+                    return Err("give the thresholds either as 'v_lo'/'v_hi' or through 'vtn'/'vtp', not both".to_string());
                 }
                 if derived {
                     need("vtn")?;
@@ -312,7 +312,7 @@ impl Params {
                         }
                     }
                 } else if self.has("tc_r") {
-                    return Err(format!("key 'tc_r' applies to RC charging ('r'), not to current charging ('i')"));
+                    return Err("key 'tc_r' applies to RC charging ('r'), not to current charging ('i')".to_string());
                 }
             }
         }

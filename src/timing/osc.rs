@@ -242,7 +242,7 @@ impl Osc {
             return Err(format!("'v_th' = {} V must lie in (0, vdd = {vdd} V)", p.get("v_th")));
         }
         if self.kind() == Kind::Reset && p.get("r_reset") > 0.0 && p.get("t_reset") == 0.0 {
-            return Err(format!("'r_reset' > 0 needs a reset pulse 't_reset' > 0 to discharge the capacitor"));
+            return Err("'r_reset' > 0 needs a reset pulse 't_reset' > 0 to discharge the capacitor".to_string());
         }
         Ok(())
     }
