@@ -33,8 +33,13 @@ impl Project {
     }
     /// Run `tickwork repl` with `input` on a pipe.
     pub fn repl(&self, input: &str) -> Output {
+        self.repl_with(input, &[])
+    }
+    /// Run `tickwork repl ARGS` with `input` on a pipe.
+    pub fn repl_with(&self, input: &str, args: &[&str]) -> Output {
         let mut child = Command::new(env!("CARGO_BIN_EXE_tickwork"))
             .arg("repl")
+            .args(args)
             .current_dir(self.path())
             .stdin(Stdio::piped())
             .stdout(Stdio::piped())
