@@ -30,6 +30,8 @@ fn inputs() -> (Vec<f64>, Vec<f64>, Vec<f64>) {
 }
 
 fn series_expression(c: &mut Criterion) {
+    // As the tickwork binary does at start-up (src/main.rs).
+    tickwork::num::alloc::keep_large_blocks();
     let (a, b, cc) = inputs();
     let mut g = c.benchmark_group("series_1e6_a_mul_b_plus_c_div_2");
     g.sample_size(30);

@@ -12,6 +12,7 @@ fn main() {
             .unwrap_or_default();
         eprintln!("tickwork: internal error{place}: {msg}\nthis is a bug in tickwork; please report it with the script that caused it");
     }));
+    tickwork::num::alloc::keep_large_blocks();
     let cli = tickwork::cli::Cli::parse();
     let code = std::panic::catch_unwind(|| tickwork::cli::main(cli)).unwrap_or(101);
     std::process::exit(code);

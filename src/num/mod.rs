@@ -1,4 +1,5 @@
 //! Numerical foundation: the `Series` vector type, SI prefixes, quadrature and root finding.
+pub mod alloc;
 pub mod quad;
 pub mod roots;
 pub mod series;
