@@ -5,7 +5,7 @@ use std::rc::Rc;
 use super::super::osc::{Cycle, Osc, View};
 use super::super::parasitic::Parasitic;
 use super::super::ramp::{advance, steady};
-use super::reset::v_reset;
+use super::reset::{ideal_args, v_reset};
 use super::{check_rails, ramp_phase, NodeFn};
 
 /// Ideal period T = 2·C·(V_ref − V_reset)/I (common practice: two equal charge-balance ramps,
@@ -15,7 +15,8 @@ pub fn ideal_formula(c: f64, i: f64, v_reset: f64, v_ref: f64) -> f64 {
 }
 
 pub fn ideal(o: &Osc) -> Result<f64, String> {
-    Ok(ideal_formula(o.parts.cap.nominal(&o.env), o.parts.charge.nominal(&o.env), v_reset(o), o.params.get("v_hi")))
+    let (c, i, vl, vref) = ideal_args(o);
+    Ok(ideal_formula(c, i, vl, vref))
 }
 
 /// The two nodes of the ping-pong oscillator under the mask of `v`.

@@ -17,8 +17,15 @@ pub(crate) fn v_reset(o: &Osc) -> f64 {
     if o.params.has("v_lo") { o.params.get("v_lo") } else { 0.0 }
 }
 
+/// The ideal formula's arguments (C, I, V_reset, V_ref) from the nominal parts; shared with
+/// the ping-pong oscillator, whose capacitors charge the same way.
+pub(crate) fn ideal_args(o: &Osc) -> (f64, f64, f64, f64) {
+    (o.parts.cap.nominal(&o.env), o.parts.charge.nominal(&o.env), v_reset(o), o.params.get("v_hi"))
+}
+
 pub fn ideal(o: &Osc) -> Result<f64, String> {
-    Ok(ideal_formula(o.parts.cap.nominal(&o.env), o.parts.charge.nominal(&o.env), v_reset(o), o.params.get("v_hi")))
+    let (c, i, vl, vref) = ideal_args(o);
+    Ok(ideal_formula(c, i, vl, vref))
 }
 
 /// The node of the charge-and-reset oscillator under the mask of `v`.
