@@ -1,5 +1,6 @@
 //! Core script functions: engineering formatting, section markers and `--set` overrides.
-use rhai::{Dynamic, Engine, EvalAltResult};
+use super::value::R;
+use rhai::{Dynamic, Engine};
 
 use super::docs::Doc;
 use super::prepass::{OVERRIDE_FN, SECTION_FN};
@@ -7,7 +8,6 @@ use super::session::Shared;
 use super::value::to_f64;
 use crate::num::si::{eng, parse_number};
 
-type R<T> = Result<T, Box<EvalAltResult>>;
 
 pub const DOCS: &[Doc] = &[
     Doc { name: "eng", sig: "eng(x: float) -> string", summary: "engineering notation with an SI prefix, 3 significant digits: eng(4700) → \"4.70k\"" },

@@ -1,6 +1,7 @@
 //! Registration of the report functions: `show`, `table`, `plot`, `metric`, `save_report`
 //! (and, through the print hook, `print`). Script values become plain report types here.
-use rhai::{Array, Dynamic, Engine, EvalAltResult, Map, NativeCallContext};
+use super::value::{R, err};
+use rhai::{Array, Dynamic, Engine, Map, NativeCallContext};
 
 use super::docs::Doc;
 use super::session::Shared;
@@ -9,7 +10,6 @@ use crate::num::Series;
 use crate::report::plot::{self, Kind, Plot};
 use crate::report::{format, Cell, Column, Figure, Item, Metric, Provenance, Spec, Table};
 
-type R<T> = Result<T, Box<EvalAltResult>>;
 
 pub const DOCS: &[Doc] = &[
     Doc { name: "show", sig: "show(label: string, value)", summary: "a result line in the report and on the terminal; a Series shows as n, min, mean, max" },
@@ -24,9 +24,6 @@ pub const DOCS: &[Doc] = &[
     Doc { name: "save_report", sig: "save_report(dir: string) -> string", summary: "write what the session showed (report.md, results.json, figures) into dir inside the output folder; returns the folder" },
 ];
 
-fn err<T>(msg: impl Into<String>) -> R<T> {
-    Err(msg.into().into())
-}
 
 /// Reject option keys other than `allowed`, naming them all.
 fn check_keys(what: &str, m: &Map, allowed: &[&str]) -> R<()> {

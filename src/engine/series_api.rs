@@ -1,12 +1,12 @@
 //! Registration of `Series` with the scripting engine: construction, elementwise arithmetic,
 //! comparisons giving masks, reductions, slicing, elementwise maths and `map` with a closure.
-use rhai::{Array, Dynamic, Engine, EvalAltResult, FnPtr, NativeCallContext};
+use super::value::{R, err, lift};
+use rhai::{Array, Dynamic, Engine, FnPtr, NativeCallContext};
 
 use super::docs::Doc;
 use super::value::to_f64;
 use crate::num::Series;
 
-type R<T> = Result<T, Box<EvalAltResult>>;
 
 pub const DOCS: &[Doc] = &[
     Doc { name: "span", sig: "span(a: float, b: float, n: int) -> Series", summary: "n points from a to b inclusive, evenly spaced" },
@@ -36,9 +36,6 @@ pub const DOCS: &[Doc] = &[
     Doc { name: "pow", sig: "pow(s: Series|float, p: float|Series) -> Series|float", summary: "elementwise power; also s ** p" },
 ];
 
-fn err<T>(msg: impl Into<String>) -> R<T> {
-    Err(msg.into().into())
-}
 
 fn index(s: &Series, i: i64) -> R<usize> {
     let n = s.len() as i64;
@@ -80,9 +77,6 @@ fn reduce(s: &Series, what: &str, need: usize, f: impl Fn(&Series) -> f64) -> R<
     Ok(f(s))
 }
 
-fn lift(r: Result<Series, String>) -> R<Series> {
-    r.map_err(|e| e.into())
-}
 
 macro_rules! arith {
     ($engine:ident, $op:literal, $f:expr) => {{

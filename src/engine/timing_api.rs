@@ -1,6 +1,7 @@
 //! Registration of the timing layer: `osc(kind, #{...})`, its methods (ideal period, period
 //! with parasitics, cycle details, error budget, operating point) and `osc_keys(kind)`.
-use rhai::{Array, Dynamic, Engine, EvalAltResult, Map};
+use super::value::{R, lift};
+use rhai::{Array, Dynamic, Engine, Map};
 
 use super::docs::Doc;
 use super::session::Shared;
@@ -15,7 +16,6 @@ use crate::timing::keys::{def, Dflt, Kind, Mode};
 use crate::timing::transient::{simulate, Options, Transient, MAX_CYCLES};
 use crate::timing::{Cycle, Mask, Osc};
 
-type R<T> = Result<T, Box<EvalAltResult>>;
 
 pub const DOCS: &[Doc] = &[
     Doc { name: "osc", sig: "osc(kind: string, params: map) -> Oscillator", summary: "an oscillator from explicit numbers; kinds \"rc-inverter\", \"schmitt\", \"window\", \"reset\", \"pingpong\"; keys c (F), i (A), r (Ω), v_lo, v_hi, vdd (V), temp (°C) and one key per parasitic (default ideal); osc_keys(kind) lists them" },
@@ -40,9 +40,6 @@ pub const DOCS: &[Doc] = &[
     Doc { name: "simulate", sig: "o.simulate(cycles: int, options: map) -> map", summary: "as o.simulate(cycles), with options points_per_phase (0..=10000 waveform samples per phase; default 64, fewer for long runs), v0 (V, start voltage of the node, capacitor A or X), v0_b (V, start of pingpong capacitor B), rtol (integrator relative tolerance, 1e-13..=1e-4, default 1e-10)" },
 ];
 
-fn lift<T>(r: Result<T, String>) -> R<T> {
-    r.map_err(|e| e.into())
-}
 
 /// Numbers of an option map, each named in errors.
 fn pairs(what: &str, m: &Map) -> R<Vec<(String, f64)>> {

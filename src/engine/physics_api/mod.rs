@@ -13,7 +13,8 @@ mod passives;
 mod process;
 mod switch;
 
-use rhai::{Array, Dynamic, Engine, EvalAltResult, Map};
+use super::value::{R, err, lift};
+use rhai::{Array, Dynamic, Engine, Map};
 
 use super::docs::Doc;
 use super::session::Shared;
@@ -24,7 +25,6 @@ use crate::physics::constants::check_temp;
 use crate::physics::mosfet::MosType;
 use crate::physics::process::Process;
 
-type R<T> = Result<T, Box<EvalAltResult>>;
 
 macro_rules! d {
     ($name:literal, $sig:literal, $sum:literal) => {
@@ -122,13 +122,7 @@ pub const DOCS: &[Doc] = &[
     d!("c0", "cap.c0() -> F", "capacitance at tnom and 0 V"),
 ];
 
-fn err<T>(msg: impl Into<String>) -> R<T> {
-    Err(msg.into().into())
-}
 
-fn lift<T>(r: Result<T, String>) -> R<T> {
-    r.map_err(|e| e.into())
-}
 
 /// A finite number argument, named in the error.
 fn num(v: &Dynamic, what: &str) -> R<f64> {
