@@ -146,7 +146,8 @@ impl Mirror {
         Ok(Mirror { kind, polarity, i_ref, ratio, vdd: pr.vdd, temp, model: Model::Devices { m_in, m_out, c_out, vg, vb } })
     }
 
-    /// Output voltage in the mirror's own frame (distance from its rail), V.
+    /// Output voltage in the mirror's own frame (distance from its rail), V; its own inverse,
+    /// so it also turns a headroom back into a node voltage.
     fn frame(&self, v_out: f64) -> f64 {
         match self.polarity {
             MosType::N => v_out,
@@ -199,10 +200,7 @@ impl Mirror {
         if !(tol.is_finite() && tol > 0.0 && tol < 0.5) {
             return Err(format!("mirror.compliance: tol must be in 0..0.5 (a fraction), got {tol}"));
         }
-        let at = |h: f64| match self.polarity {
-            MosType::N => self.i_out(h),
-            MosType::P => self.i_out(self.vdd - h),
-        };
+        let at = |h: f64| self.i_out(self.frame(h));
         let d = 1e-3;
         let i_top = at(headroom_max);
         let g = (at(headroom_max) - at(headroom_max - d)) / d;
@@ -220,10 +218,7 @@ impl Mirror {
         if !(frac.is_finite() && frac > 0.0 && frac < 1.0) {
             return Err(format!("mirror.compliance_rout: frac must be in 0..1 (exclusive), got {frac}"));
         }
-        let r = |h: f64| match self.polarity {
-            MosType::N => self.rout(h),
-            MosType::P => self.rout(self.vdd - h),
-        };
+        let r = |h: f64| self.rout(self.frame(h));
         let target = frac * r(headroom_max - 2e-3);
         let f = |h: f64| (r(h) / target).ln();
         let step = 5e-3;
