@@ -3,14 +3,19 @@
 use std::path::Path;
 use std::process::Command;
 
-use criterion::{criterion_group, criterion_main, Criterion};
+use criterion::{Criterion, criterion_group, criterion_main};
 use rhai::Scope;
-use tickwork::engine::{self, sandbox::Sandbox, session::{Session, Shared}};
+use tickwork::engine::{
+    self,
+    sandbox::Sandbox,
+    session::{Session, Shared},
+};
 use tickwork::num::Series;
 
 fn trivial_run(c: &mut Criterion) {
     let dir = tempfile::tempdir().unwrap();
-    std::fs::write(dir.path().join("trivial.rhai"), "let t = 2 * 1pF * 1.66V / 1uA;\nshow(\"period\", t, \"s\");\n").unwrap();
+    std::fs::write(dir.path().join("trivial.rhai"), "let t = 2 * 1pF * 1.66V / 1uA;\nshow(\"period\", t, \"s\");\n")
+        .unwrap();
     let exe = env!("CARGO_BIN_EXE_tickwork");
     c.bench_function("run_trivial_script", |b| {
         b.iter(|| {

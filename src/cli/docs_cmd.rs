@@ -14,7 +14,8 @@ pub fn describe(name: &str) -> Option<String> {
 
 /// Names close to `name`, for a "did you mean" line.
 pub fn similar(name: &str) -> Vec<&'static str> {
-    let mut v: Vec<&'static str> = docs::all().iter().map(|d| d.name).filter(|n| n.contains(name) || name.contains(n)).collect();
+    let mut v: Vec<&'static str> =
+        docs::all().iter().map(|d| d.name).filter(|n| n.contains(name) || name.contains(n)).collect();
     v.dedup();
     v
 }
@@ -34,7 +35,10 @@ pub fn doc(name: Option<&str>) -> i32 {
             }
             None => {
                 let sim = similar(n);
-                eprintln!("no function named '{n}'{}", if sim.is_empty() { String::new() } else { format!("; similar: {}", sim.join(", ")) });
+                eprintln!(
+                    "no function named '{n}'{}",
+                    if sim.is_empty() { String::new() } else { format!("; similar: {}", sim.join(", ")) }
+                );
                 super::EXIT_SCRIPT_ERROR
             }
         },

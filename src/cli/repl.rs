@@ -7,7 +7,7 @@ use std::path::PathBuf;
 use std::sync::{Arc, Mutex};
 
 use clap::Args;
-use rhai::{Dynamic, Engine, Scope, AST};
+use rhai::{AST, Dynamic, Engine, Scope};
 use rustyline::completion::{Completer, Pair};
 use rustyline::highlight::Highlighter;
 use rustyline::hint::Hinter;
@@ -58,7 +58,15 @@ impl Evaluator {
         session.seed = a.seed;
         let session = Shared::new(session);
         let engine = engine::build(&session, a.max_ops);
-        Ok(Evaluator { engine, scope: Scope::new(), functions: AST::empty(), session, entries: 0, max_ops: a.max_ops, fn_files: HashMap::new() })
+        Ok(Evaluator {
+            engine,
+            scope: Scope::new(),
+            functions: AST::empty(),
+            session,
+            entries: 0,
+            max_ops: a.max_ops,
+            fn_files: HashMap::new(),
+        })
     }
 
     /// Names for completion: every registered function and every variable in scope.
@@ -66,7 +74,10 @@ impl Evaluator {
         let mut v: Vec<String> = docs::all().iter().map(|d| d.name.to_string()).collect();
         v.extend(self.scope.iter().map(|(n, _, _)| n.to_string()));
         v.extend(self.functions.iter_functions().map(|f| f.name.to_string()));
-        for kw in ["let", "const", "fn", "if", "else", "for", "in", "while", "loop", "return", "import", "true", "false", "help", "doc"] {
+        for kw in [
+            "let", "const", "fn", "if", "else", "for", "in", "while", "loop", "return", "import", "true", "false",
+            "help", "doc",
+        ] {
             v.push(kw.to_string());
         }
         v.sort();
@@ -99,7 +110,10 @@ impl Evaluator {
                     Some(d) => Ok(Some(d)),
                     None => {
                         let sim = similar(name);
-                        Err(Entry::Failed(format!("no function named '{name}'{}", if sim.is_empty() { String::new() } else { format!("; similar: {}", sim.join(", ")) })))
+                        Err(Entry::Failed(format!(
+                            "no function named '{name}'{}",
+                            if sim.is_empty() { String::new() } else { format!("; similar: {}", sim.join(", ")) }
+                        )))
                     }
                 };
             }
@@ -209,7 +223,10 @@ impl Completer for LineHelper {
     type Candidate = Pair;
     fn complete(&self, line: &str, pos: usize, _ctx: &Context<'_>) -> rustyline::Result<(usize, Vec<Pair>)> {
         let head = &line[..pos];
-        let start = head.rfind(|c: char| !(c.is_alphanumeric() || c == '_')).map(|k| k + head[k..].chars().next().map_or(1, |c| c.len_utf8())).unwrap_or(0);
+        let start = head
+            .rfind(|c: char| !(c.is_alphanumeric() || c == '_'))
+            .map(|k| k + head[k..].chars().next().map_or(1, |c| c.len_utf8()))
+            .unwrap_or(0);
         let word = &head[start..];
         if word.is_empty() {
             return Ok((pos, vec![]));
@@ -246,11 +263,7 @@ pub fn repl(a: &ReplArgs) -> i32 {
             return super::EXIT_SCRIPT_ERROR;
         }
     };
-    if std::io::stdin().is_terminal() {
-        interactive(&mut ev)
-    } else {
-        piped(&mut ev, std::io::stdin().lock())
-    }
+    if std::io::stdin().is_terminal() { interactive(&mut ev) } else { piped(&mut ev, std::io::stdin().lock()) }
 }
 
 /// Read entries from a non-terminal input: lines gather until the entry is complete.

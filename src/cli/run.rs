@@ -4,13 +4,20 @@ use std::path::{Path, PathBuf};
 
 use clap::Args;
 
-use crate::engine::{self, sandbox::Sandbox, script::run_source, session::{Session, Shared}};
+use crate::engine::{
+    self,
+    sandbox::Sandbox,
+    script::run_source,
+    session::{Session, Shared},
+};
 use crate::report;
 
 #[derive(Args, Debug, Clone)]
-#[command(after_help = "Each script writes OUT/<script-name>/report.md, results.json and its figures (fig-NN-<title>.svg).\n\
+#[command(
+    after_help = "Each script writes OUT/<script-name>/report.md, results.json and its figures (fig-NN-<title>.svg).\n\
 Exit codes: 0 all scripts ran and every metric met its spec; 1 a script failed (its previous report is left as it was);\n\
-2 bad command line; 3 every script ran but a metric failed its spec.")]
+2 bad command line; 3 every script ran but a metric failed its spec."
+)]
 pub struct RunArgs {
     /// Script files (.rhai)
     #[arg(required = true)]
@@ -87,7 +94,8 @@ fn run_one(a: &RunArgs, file: &Path, sets: &BTreeMap<String, String>) -> i32 {
     };
     let name = script_name(file);
     let out_dir = a.out.join(&name);
-    let script_dir = file.parent().map(|p| if p.as_os_str().is_empty() { Path::new(".") } else { p }).unwrap_or(Path::new("."));
+    let script_dir =
+        file.parent().map(|p| if p.as_os_str().is_empty() { Path::new(".") } else { p }).unwrap_or(Path::new("."));
     let sandbox = match Sandbox::new(&a.root, &out_dir, script_dir) {
         Ok(s) => s,
         Err(e) => {

@@ -8,17 +8,34 @@ use super::session::Shared;
 use super::value::to_f64;
 use crate::num::si::{eng, parse_number};
 
-
 pub const DOCS: &[Doc] = &[
-    Doc { name: "eng", sig: "eng(x: float) -> string", summary: "engineering notation with an SI prefix, 3 significant digits: eng(4700) → \"4.70k\"" },
-    Doc { name: "eng", sig: "eng(x: float, unit: string) -> string", summary: "with a unit: eng(3.33e-6, \"s\") → \"3.33 µs\"" },
-    Doc { name: "eng", sig: "eng(x: float, unit: string, digits: int) -> string", summary: "with a unit and 1..17 significant digits" },
-    Doc { name: "si", sig: "si(text: string) -> float", summary: "parse a number with an SI suffix: si(\"2.2pF\") → 2.2e-12" },
+    Doc {
+        name: "eng",
+        sig: "eng(x: float) -> string",
+        summary: "engineering notation with an SI prefix, 3 significant digits: eng(4700) → \"4.70k\"",
+    },
+    Doc {
+        name: "eng",
+        sig: "eng(x: float, unit: string) -> string",
+        summary: "with a unit: eng(3.33e-6, \"s\") → \"3.33 µs\"",
+    },
+    Doc {
+        name: "eng",
+        sig: "eng(x: float, unit: string, digits: int) -> string",
+        summary: "with a unit and 1..17 significant digits",
+    },
+    Doc {
+        name: "si",
+        sig: "si(text: string) -> float",
+        summary: "parse a number with an SI suffix: si(\"2.2pF\") → 2.2e-12",
+    },
     Doc { name: "seed", sig: "seed() -> int", summary: "the run's random seed (--seed N, default 1)" },
 ];
 
 pub fn register(engine: &mut Engine, shared: &Shared) {
-    let x_of = |x: &Dynamic| -> R<f64> { to_f64(x).map_err(|_| format!("eng: x must be a number, found {}", x.type_name()).into()) };
+    let x_of = |x: &Dynamic| -> R<f64> {
+        to_f64(x).map_err(|_| format!("eng: x must be a number, found {}", x.type_name()).into())
+    };
     engine.register_fn("eng", move |x: Dynamic| -> R<String> { Ok(eng(x_of(&x)?, "", 3)) });
     engine.register_fn("eng", move |x: Dynamic, unit: &str| -> R<String> { Ok(eng(x_of(&x)?, unit, 3)) });
     engine.register_fn("eng", move |x: Dynamic, unit: &str, digits: i64| -> R<String> {

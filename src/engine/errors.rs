@@ -41,7 +41,8 @@ fn located(sources: &Sources, file: &str, pos: Position, message: String) -> Scr
         Some((text, map)) if line > 0 => {
             let col = map.original_col(line, col);
             let src = text.split('\n').nth(line - 1).unwrap_or("").trim_end_matches('\r');
-            let pad: String = src.chars().take(col.saturating_sub(1)).map(|c| if c == '\t' { '\t' } else { ' ' }).collect();
+            let pad: String =
+                src.chars().take(col.saturating_sub(1)).map(|c| if c == '\t' { '\t' } else { ' ' }).collect();
             (col, format!("{:>5} | {src}\n      | {pad}^", line))
         }
         _ => (col, String::new()),
@@ -73,7 +74,13 @@ pub fn from_eval(sources: &Sources, file: &str, e: &EvalAltResult, max_ops: u64)
 
 /// As [`from_eval`]; `fn_files` names the source of script functions whose errors Rhai reports
 /// against the calling entry (the REPL merges functions of earlier entries into each new one).
-pub fn from_eval_in(sources: &Sources, file: &str, e: &EvalAltResult, max_ops: u64, fn_files: &HashMap<String, String>) -> ScriptError {
+pub fn from_eval_in(
+    sources: &Sources,
+    file: &str,
+    e: &EvalAltResult,
+    max_ops: u64,
+    fn_files: &HashMap<String, String>,
+) -> ScriptError {
     let mut context: Vec<String> = Vec::new();
     let mut cur = e;
     let mut source = file.to_string();
@@ -169,7 +176,12 @@ pub fn plain_types(s: &str) -> String {
         out.push(c);
         i += 1;
     }
-    for (a, b) in [(" a int", " an int"), (" a array", " an array"), (" a Oscillator", " an Oscillator"), (" a integer", " an integer")] {
+    for (a, b) in [
+        (" a int", " an int"),
+        (" a array", " an array"),
+        (" a Oscillator", " an Oscillator"),
+        (" a integer", " an integer"),
+    ] {
         out = out.replace(a, b);
     }
     out
@@ -178,14 +190,18 @@ pub fn plain_types(s: &str) -> String {
 /// Rhai's getter and setter wording as what the script did: `a int has no property 'p'`.
 fn property_words(s: &str) -> String {
     let quoted = |t: &str, k: usize| t.split('\'').nth(k).map(str::to_string);
-    if s.starts_with("Unknown property '") && s.contains("a getter is not registered for type '")
-        && let (Some(p), Some(t)) = (quoted(s, 1), quoted(s, 3)) {
-            return format!("{} has no property '{p}'", plain_types(&format!(" a {t}")).trim_start());
-        }
-    if s.starts_with("No writable property '") && s.contains("a setter is not registered for type '")
-        && let (Some(p), Some(t)) = (quoted(s, 1), quoted(s, 3)) {
-            return format!("{} has no property '{p}' that can be set", plain_types(&format!(" a {t}")).trim_start());
-        }
+    if s.starts_with("Unknown property '")
+        && s.contains("a getter is not registered for type '")
+        && let (Some(p), Some(t)) = (quoted(s, 1), quoted(s, 3))
+    {
+        return format!("{} has no property '{p}'", plain_types(&format!(" a {t}")).trim_start());
+    }
+    if s.starts_with("No writable property '")
+        && s.contains("a setter is not registered for type '")
+        && let (Some(p), Some(t)) = (quoted(s, 1), quoted(s, 3))
+    {
+        return format!("{} has no property '{p}' that can be set", plain_types(&format!(" a {t}")).trim_start());
+    }
     s.to_string()
 }
 
@@ -214,7 +230,9 @@ fn not_found(sig: &str) -> String {
         let mut v: Vec<&str> = super::docs::all()
             .iter()
             .map(|d| d.name)
-            .filter(|n| n.len() > 2 && ((short.len() > 2 && (n.contains(short) || short.contains(n))) || close_name(n, short)))
+            .filter(|n| {
+                n.len() > 2 && ((short.len() > 2 && (n.contains(short) || short.contains(n))) || close_name(n, short))
+            })
             .collect();
         v.sort();
         v.dedup();

@@ -132,7 +132,11 @@ pub fn prepare(src: &str, section_base: Option<usize>) -> Result<Prepared, Prepa
     }
     if lx.in_block_comment() {
         let (line, col) = lx.comment_start;
-        return Err(PrepassError { line, col, message: "this /* comment is never closed (no */ before the end of the file)".into() });
+        return Err(PrepassError {
+            line,
+            col,
+            message: "this /* comment is never closed (no */ before the end of the file)".into(),
+        });
     }
     if pending_const.is_some() {
         code.push(')'); // a last `const` statement without its `;`
@@ -215,9 +219,9 @@ enum StrKind {
 /// Tokeniser state that survives line ends (block comments, multi-line strings, brackets).
 #[derive(Default)]
 struct Lexer {
-    block_comment: usize, // nesting depth of /* */
+    block_comment: usize,          // nesting depth of /* */
     comment_start: (usize, usize), // (line, col) of the outermost open /*
-    strings: Vec<StrKind>, // open strings (back-tick strings can hold `${ code }`)
+    strings: Vec<StrKind>,         // open strings (back-tick strings can hold `${ code }`)
     brackets: Vec<Bracket>,
     last_token_was_const: bool,
 }
@@ -350,11 +354,12 @@ impl Lexer {
                 }
                 ';' => {
                     if let Some((depth, _)) = *pending_const
-                        && depth == self.brackets.len() {
-                            code.push(')');
-                            out.columns.push(ln, Edit { col: i + 1, old_len: 0, new_len: 1 });
-                            *pending_const = None;
-                        }
+                        && depth == self.brackets.len()
+                    {
+                        code.push(')');
+                        out.columns.push(ln, Edit { col: i + 1, old_len: 0, new_len: 1 });
+                        *pending_const = None;
+                    }
                     code.push(c);
                     i += 1;
                 }
@@ -442,8 +447,13 @@ impl Lexer {
             digits(&mut i);
             if at(i) == '.' && at(i + 1).is_ascii_digit() {
                 // `1.5.5`: a second decimal point.
-                let word: String = chars[start..].iter().take_while(|c| c.is_alphanumeric() || **c == '_' || **c == '.').collect();
-                return Err(PrepassError { line: ln, col: start + 1, message: format!("malformed number '{word}': more than one decimal point") });
+                let word: String =
+                    chars[start..].iter().take_while(|c| c.is_alphanumeric() || **c == '_' || **c == '.').collect();
+                return Err(PrepassError {
+                    line: ln,
+                    col: start + 1,
+                    message: format!("malformed number '{word}': more than one decimal point"),
+                });
             }
         }
         // Exponent: `e` followed by digits (optionally signed). `e` alone would be a suffix.
@@ -464,9 +474,7 @@ impl Lexer {
             return Err(PrepassError {
                 line: ln,
                 col: start + 1,
-                message: format!(
-                    "malformed number '{word}': a prefix or unit ends a number (write 2.5p, not 2p5)"
-                ),
+                message: format!("malformed number '{word}': a prefix or unit ends a number (write 2.5p, not 2p5)"),
             });
         }
         if i == s0 {
@@ -507,10 +515,7 @@ mod tests {
     #[test]
     fn leaves_strings_comments_identifiers() {
         let s = "let s = \"2p and 3k\"; // 4n\nlet x2p = 1; /* 5u */ let y = `a ${2p} 3k`;";
-        assert_eq!(
-            code(s),
-            "let s = \"2p and 3k\"; // 4n\nlet x2p = 1; /* 5u */ let y = `a ${2.0e-12} 3k`;"
-        );
+        assert_eq!(code(s), "let s = \"2p and 3k\"; // 4n\nlet x2p = 1; /* 5u */ let y = `a ${2.0e-12} 3k`;");
     }
     #[test]
     fn maps_columns_back() {

@@ -8,22 +8,60 @@ use super::session::Shared;
 use super::value::to_f64;
 use crate::num::Series;
 use crate::report::plot::{self, Kind, Plot};
-use crate::report::{format, Cell, Column, Figure, Item, Metric, Provenance, Spec, Table};
-
+use crate::report::{Cell, Column, Figure, Item, Metric, Provenance, Spec, Table, format};
 
 pub const DOCS: &[Doc] = &[
-    Doc { name: "show", sig: "show(label: string, value)", summary: "a result line in the report and on the terminal; a Series shows as n, min, mean, max" },
-    Doc { name: "show", sig: "show(label: string, value: float|Series, unit: string)", summary: "a result line, engineering-formatted with its unit: show(\"period\", 2.5e-7, \"s\") → 250 ns" },
-    Doc { name: "show", sig: "show(label: string, value, unit: string, #{full: bool, digits: int})", summary: "full: true lists every element of a Series; digits: 1..17 significant digits (default 3)" },
-    Doc { name: "show", sig: "show(label: string, value, #{full: bool, digits: int})", summary: "the same options for a value without a unit" },
-    Doc { name: "table", sig: "table(data: map of Series/arrays | array of maps)", summary: "a Markdown table; columns of a map come in name order, rows of an array of maps are its elements" },
-    Doc { name: "table", sig: "table(data, #{columns: [names], units: #{name: unit}, digits: int})", summary: "columns: which columns in which order; units: unit of each column, shown in its header (cells get SI prefixes); digits: significant digits (default 3)" },
-    Doc { name: "plot", sig: "plot(#{title, x, y, kind, names, x_label, y_label, x_unit, y_unit, log_x, log_y, bins, stats, labels, waterfall, total_label}) -> string", summary: "an SVG chart beside the report (fig-NN-<title>.svg), linked from it; kinds line (default), scatter, step, histogram (samples in x; bins; stats: true marks the mean and gives mean and σ in the legend), bar (labels + y; waterfall: true stacks them and adds a total); y may be an array of Series with names for the legend; units go in x_unit/y_unit (ticks get SI prefixes); returns the file name" },
-    Doc { name: "metric", sig: "metric(name: string, value: float, unit: string)", summary: "a named figure for results.json and the metrics history; name: lower-case a-z first, then a-z, 0-9, '_' or '.' (64 at most)" },
-    Doc { name: "metric", sig: "metric(name: string, value: float, unit: string, #{min: float, max: float})", summary: "a metric with a spec window (ends included, either may be left out); a failed spec is marked in the report and the run exits with code 3" },
-    Doc { name: "save_report", sig: "save_report(dir: string) -> string", summary: "write what the session showed (report.md, results.json, figures) into dir inside the output folder; returns the folder" },
+    Doc {
+        name: "show",
+        sig: "show(label: string, value)",
+        summary: "a result line in the report and on the terminal; a Series shows as n, min, mean, max",
+    },
+    Doc {
+        name: "show",
+        sig: "show(label: string, value: float|Series, unit: string)",
+        summary: "a result line, engineering-formatted with its unit: show(\"period\", 2.5e-7, \"s\") → 250 ns",
+    },
+    Doc {
+        name: "show",
+        sig: "show(label: string, value, unit: string, #{full: bool, digits: int})",
+        summary: "full: true lists every element of a Series; digits: 1..17 significant digits (default 3)",
+    },
+    Doc {
+        name: "show",
+        sig: "show(label: string, value, #{full: bool, digits: int})",
+        summary: "the same options for a value without a unit",
+    },
+    Doc {
+        name: "table",
+        sig: "table(data: map of Series/arrays | array of maps)",
+        summary: "a Markdown table; columns of a map come in name order, rows of an array of maps are its elements",
+    },
+    Doc {
+        name: "table",
+        sig: "table(data, #{columns: [names], units: #{name: unit}, digits: int})",
+        summary: "columns: which columns in which order; units: unit of each column, shown in its header (cells get SI prefixes); digits: significant digits (default 3)",
+    },
+    Doc {
+        name: "plot",
+        sig: "plot(#{title, x, y, kind, names, x_label, y_label, x_unit, y_unit, log_x, log_y, bins, stats, labels, waterfall, total_label}) -> string",
+        summary: "an SVG chart beside the report (fig-NN-<title>.svg), linked from it; kinds line (default), scatter, step, histogram (samples in x; bins; stats: true marks the mean and gives mean and σ in the legend), bar (labels + y; waterfall: true stacks them and adds a total); y may be an array of Series with names for the legend; units go in x_unit/y_unit (ticks get SI prefixes); returns the file name",
+    },
+    Doc {
+        name: "metric",
+        sig: "metric(name: string, value: float, unit: string)",
+        summary: "a named figure for results.json and the metrics history; name: lower-case a-z first, then a-z, 0-9, '_' or '.' (64 at most)",
+    },
+    Doc {
+        name: "metric",
+        sig: "metric(name: string, value: float, unit: string, #{min: float, max: float})",
+        summary: "a metric with a spec window (ends included, either may be left out); a failed spec is marked in the report and the run exits with code 3",
+    },
+    Doc {
+        name: "save_report",
+        sig: "save_report(dir: string) -> string",
+        summary: "write what the session showed (report.md, results.json, figures) into dir inside the output folder; returns the folder",
+    },
 ];
-
 
 /// Reject option keys other than `allowed`, naming them all.
 fn check_keys(what: &str, m: &Map, allowed: &[&str]) -> R<()> {
@@ -73,7 +111,8 @@ fn as_series(v: &Dynamic) -> Option<Result<Series, String>> {
 }
 
 /// Why a value is NaN, for the messages that refuse to show one.
-const NAN_WHY: &str = "an undefined result upstream (0/0, ln or sqrt of a negative number, inf - inf, the mean of nothing)";
+const NAN_WHY: &str =
+    "an undefined result upstream (0/0, ln or sqrt of a negative number, inf - inf, the mean of nothing)";
 const NAN_VALUE: &str = "the value is NaN (not a number): an undefined result upstream (0/0, ln or sqrt of a negative number, inf - inf, the mean of nothing)";
 
 /// Text of a shown value.
@@ -87,7 +126,8 @@ fn value_text(v: &Dynamic, unit: &str, full: bool, digits: usize) -> Result<Stri
     if let Some(i) = v.clone().try_cast::<i64>() {
         return Ok(if unit.is_empty() { i.to_string() } else { format::value(i as f64, unit, digits) });
     }
-    let is_numbers = v.is::<Series>() || v.clone().try_cast::<Array>().is_some_and(|a| a.iter().all(|x| x.is_float() || x.is_int()));
+    let is_numbers =
+        v.is::<Series>() || v.clone().try_cast::<Array>().is_some_and(|a| a.iter().all(|x| x.is_float() || x.is_int()));
     if is_numbers {
         let s = as_series(v).unwrap_or(Ok(Series::default()))?;
         if s.is_empty() {
@@ -131,9 +171,12 @@ pub fn register(engine: &mut Engine, shared: &Shared) {
         show(&s, label, &shown(&ctx, v), "", &opts)
     });
     let s = shared.clone();
-    engine.register_fn("show", move |ctx: NativeCallContext, label: &str, v: Dynamic, unit: &str, opts: Map| -> R<()> {
-        show(&s, label, &shown(&ctx, v), unit, &opts)
-    });
+    engine.register_fn(
+        "show",
+        move |ctx: NativeCallContext, label: &str, v: Dynamic, unit: &str, opts: Map| -> R<()> {
+            show(&s, label, &shown(&ctx, v), unit, &opts)
+        },
+    );
 
     let s = shared.clone();
     engine.register_fn("table", move |data: Dynamic| -> R<()> { table(&s, &data, &Map::new()) });
@@ -144,9 +187,13 @@ pub fn register(engine: &mut Engine, shared: &Shared) {
     engine.register_fn("plot", move |m: Map| -> R<String> { plot_fn(&s, &m) });
 
     let s = shared.clone();
-    engine.register_fn("metric", move |name: &str, v: Dynamic, unit: &str| -> R<()> { metric(&s, name, &v, unit, &Map::new()) });
+    engine.register_fn("metric", move |name: &str, v: Dynamic, unit: &str| -> R<()> {
+        metric(&s, name, &v, unit, &Map::new())
+    });
     let s = shared.clone();
-    engine.register_fn("metric", move |name: &str, v: Dynamic, unit: &str, spec: Map| -> R<()> { metric(&s, name, &v, unit, &spec) });
+    engine.register_fn("metric", move |name: &str, v: Dynamic, unit: &str, spec: Map| -> R<()> {
+        metric(&s, name, &v, unit, &spec)
+    });
 
     let s = shared.clone();
     engine.register_fn("save_report", move |dir: &str| -> R<String> { save_report(&s, dir) });
@@ -155,7 +202,15 @@ pub fn register(engine: &mut Engine, shared: &Shared) {
 /// An object of a registered type (oscillator, process, device) as the text its own
 /// `to_string` gives; every other value as it is.
 fn shown(ctx: &NativeCallContext, v: Dynamic) -> Dynamic {
-    let plain = v.is_float() || v.is_int() || v.is_string() || v.is_bool() || v.is_char() || v.is_unit() || v.is_array() || v.is_map() || v.is::<Series>();
+    let plain = v.is_float()
+        || v.is_int()
+        || v.is_string()
+        || v.is_bool()
+        || v.is_char()
+        || v.is_unit()
+        || v.is_array()
+        || v.is_map()
+        || v.is::<Series>();
     if plain {
         return v;
     }
@@ -194,7 +249,9 @@ fn cells(name: &str, v: &Dynamic) -> R<Vec<Cell>> {
         .map(|(k, x)| match cell(x) {
             Ok(Cell::Num(f)) if f.is_nan() => err(format!("table: column '{name}', row {k} is NaN; {NAN_WHY}")),
             Ok(c) => Ok(c),
-            Err(t) => err(format!("table: column '{name}', row {k} holds a {t}; cells are numbers, strings or booleans")),
+            Err(t) => {
+                err(format!("table: column '{name}', row {k} holds a {t}; cells are numbers, strings or booleans"))
+            }
         })
         .collect()
 }
@@ -216,7 +273,9 @@ fn table(s: &Shared, data: &Dynamic, opts: &Map) -> R<()> {
     let digits = opt_digits("table", opts)?;
     let units: Map = match opts.get("units") {
         None => Map::new(),
-        Some(u) => u.clone().try_cast::<Map>().ok_or_else(|| format!("table: key 'units' must be a map of column name to unit, found {}", u.type_name()))?,
+        Some(u) => u.clone().try_cast::<Map>().ok_or_else(|| {
+            format!("table: key 'units' must be a map of column name to unit, found {}", u.type_name())
+        })?,
     };
     // Columns by name, in name order (a script map is sorted by key) or as the rows give them.
     let mut cols: Vec<(String, Vec<Cell>)> = Vec::new();
@@ -240,7 +299,9 @@ fn table(s: &Shared, data: &Dynamic, opts: &Map) -> R<()> {
             }
             for (name, col) in cols.iter_mut() {
                 let v = &m[name.as_str()];
-                let c = cell(v).map_err(|t| format!("table: row {r}, key '{name}' holds a {t}; cells are numbers, strings or booleans"))?;
+                let c = cell(v).map_err(|t| {
+                    format!("table: row {r}, key '{name}' holds a {t}; cells are numbers, strings or booleans")
+                })?;
                 if matches!(c, Cell::Num(f) if f.is_nan()) {
                     return err(format!("table: row {r}, key '{name}' is NaN; {NAN_WHY}"));
                 }
@@ -248,7 +309,10 @@ fn table(s: &Shared, data: &Dynamic, opts: &Map) -> R<()> {
             }
         }
     } else {
-        return err(format!("table: data must be a map of columns or an array of row maps, found {}", data.type_name()));
+        return err(format!(
+            "table: data must be a map of columns or an array of row maps, found {}",
+            data.type_name()
+        ));
     }
     if let Some(order) = opts.get("columns") {
         let Some(order) = order.clone().try_cast::<Array>() else {
@@ -259,7 +323,10 @@ fn table(s: &Shared, data: &Dynamic, opts: &Map) -> R<()> {
             let name = o.to_string();
             let Some(k) = cols.iter().position(|(n, _)| *n == name) else {
                 let have: Vec<&str> = cols.iter().map(|(n, _)| n.as_str()).collect();
-                return err(format!("table: 'columns' names '{name}', which the data does not have; it has {}", have.join(", ")));
+                return err(format!(
+                    "table: 'columns' names '{name}', which the data does not have; it has {}",
+                    have.join(", ")
+                ));
             };
             picked.push(cols[k].clone());
         }
@@ -305,7 +372,10 @@ fn series_list(key: &str, v: &Dynamic) -> R<Vec<Vec<f64>>> {
     match as_series(v) {
         Some(Ok(s)) => Ok(vec![s.to_vec()]),
         Some(Err(e)) => err(format!("plot: key '{key}': {e}")),
-        None => err(format!("plot: key '{key}' must be a Series, an array of numbers or an array of Series, found {}", v.type_name())),
+        None => err(format!(
+            "plot: key '{key}' must be a Series, an array of numbers or an array of Series, found {}",
+            v.type_name()
+        )),
     }
 }
 
@@ -317,7 +387,22 @@ fn strings(key: &str, v: &Dynamic) -> R<Vec<String>> {
 }
 
 const PLOT_KEYS: &[&str] = &[
-    "title", "kind", "x", "y", "names", "labels", "x_label", "y_label", "x_unit", "y_unit", "log_x", "log_y", "bins", "waterfall", "total_label", "stats",
+    "title",
+    "kind",
+    "x",
+    "y",
+    "names",
+    "labels",
+    "x_label",
+    "y_label",
+    "x_unit",
+    "y_unit",
+    "log_x",
+    "log_y",
+    "bins",
+    "waterfall",
+    "total_label",
+    "stats",
 ];
 
 /// A [`Plot`] from the script's map; errors name the key.
@@ -344,7 +429,13 @@ pub fn plot_from_map(m: &Map) -> R<Plot> {
         p.total_label = opt_str("plot", m, "total_label")?;
     }
     if let Some(b) = m.get("bins") {
-        p.bins = Some(b.as_int().ok().filter(|b| *b > 0).ok_or_else(|| format!("plot: key 'bins' must be an integer in 1..=1000, found {b:?}"))? as usize);
+        p.bins = Some(
+            b.as_int()
+                .ok()
+                .filter(|b| *b > 0)
+                .ok_or_else(|| format!("plot: key 'bins' must be an integer in 1..=1000, found {b:?}"))?
+                as usize,
+        );
     }
     if let Some(n) = m.get("names") {
         p.names = if n.is_string() { vec![n.to_string()] } else { strings("names", n)? };
@@ -388,7 +479,8 @@ pub fn plot_from_map(m: &Map) -> R<Plot> {
 
 fn plot_fn(s: &Shared, m: &Map) -> R<String> {
     let p = plot_from_map(m)?;
-    let svg = plot::svg::render(&p).map_err(|e| if e.starts_with("plot") { e } else { format!("plot '{}': {e}", p.title) })?;
+    let svg = plot::svg::render(&p)
+        .map_err(|e| if e.starts_with("plot") { e } else { format!("plot '{}': {e}", p.title) })?;
     let mut g = s.lock();
     let n = g.report.figures().count() + 1;
     let file = format!("fig-{n:02}-{}.svg", plot::slug(&p.title));
@@ -401,10 +493,15 @@ fn plot_fn(s: &Shared, m: &Map) -> R<String> {
 
 fn metric(s: &Shared, name: &str, v: &Dynamic, unit: &str, spec: &Map) -> R<()> {
     check_keys(&format!("metric '{name}'"), spec, &["min", "max"])?;
-    let value = to_f64(v).map_err(|_| format!("metric '{name}': the value must be a number, found {}", v.type_name()))?;
+    let value =
+        to_f64(v).map_err(|_| format!("metric '{name}': the value must be a number, found {}", v.type_name()))?;
     let bound = |k: &str| -> R<Option<f64>> {
         spec.get(k)
-            .map(|x| to_f64(x).map_err(|_| format!("metric '{name}': spec key '{k}' must be a number, found {}", x.type_name()).into()))
+            .map(|x| {
+                to_f64(x).map_err(|_| {
+                    format!("metric '{name}': spec key '{k}' must be a number, found {}", x.type_name()).into()
+                })
+            })
             .transpose()
     };
     let m = Metric::new(name, value, unit, Spec { min: bound("min")?, max: bound("max")? })?;

@@ -61,9 +61,9 @@ impl ModuleResolver for Resolver {
             }
         };
         self.session.lock().sources.files.insert(name.clone(), (text, prepared.columns.clone()));
-        let mut ast = engine.compile(&prepared.code).map_err(|e| {
-            Box::new(EvalAltResult::ErrorInModule(name.clone(), Box::new(e.into()), pos))
-        })?;
+        let mut ast = engine
+            .compile(&prepared.code)
+            .map_err(|e| Box::new(EvalAltResult::ErrorInModule(name.clone(), Box::new(e.into()), pos)))?;
         ast.set_source(name.as_str());
         let module = Module::eval_ast_as_new(Scope::new(), &ast, engine)
             .map_err(|e| Box::new(EvalAltResult::ErrorInModule(name.clone(), e, pos)))?;

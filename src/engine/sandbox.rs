@@ -28,15 +28,15 @@ fn lexical(p: &Path) -> PathBuf {
 
 impl Sandbox {
     pub fn new(root: &Path, out: &Path, script_dir: &Path) -> Result<Self, String> {
-        let root = root
-            .canonicalize()
-            .map_err(|e| format!("project root '{}' cannot be opened: {e}", root.display()))?;
+        let root =
+            root.canonicalize().map_err(|e| format!("project root '{}' cannot be opened: {e}", root.display()))?;
         Ok(Sandbox { root, out: out.to_path_buf(), script_dir: script_dir.to_path_buf() })
     }
 
     /// The canonical path of a file a script may read, or why it may not.
     pub fn readable(&self, rel: &str) -> Result<PathBuf, String> {
-        let outside = || format!("'{rel}' is outside the project root {}; scripts may read only below it", self.root.display());
+        let outside =
+            || format!("'{rel}' is outside the project root {}; scripts may read only below it", self.root.display());
         let p = self.script_dir.join(rel);
         // Judge the path as written first, so that a missing file outside the root is reported
         // as outside (not as missing, which would tell what exists there).

@@ -2,8 +2,8 @@
 //! located in the original source.
 use rhai::{Dynamic, Engine, Scope};
 
-use super::errors::{from_eval, from_parse, from_prepass, ScriptError};
-use super::prepass::{prepare, Prepared};
+use super::errors::{ScriptError, from_eval, from_parse, from_prepass};
+use super::prepass::{Prepared, prepare};
 use super::session::Shared;
 use crate::report::Section;
 
@@ -33,7 +33,9 @@ pub fn run_source(engine: &Engine, session: &Shared, file: &str, text: &str, max
                 file: file.to_string(),
                 line: 0,
                 col: 0,
-                message: format!("--set {unknown}: the script declares no top-level constant '{unknown}'; it declares: {list}"),
+                message: format!(
+                    "--set {unknown}: the script declares no top-level constant '{unknown}'; it declares: {list}"
+                ),
                 excerpt: String::new(),
             });
         }
@@ -42,18 +44,28 @@ pub fn run_source(engine: &Engine, session: &Shared, file: &str, text: &str, max
 }
 
 /// Compile and evaluate prepared code in a fresh scope; the value of the last statement.
-fn evaluate(engine: &Engine, session: &Shared, file: &str, prepared: &Prepared, max_ops: u64) -> Result<Dynamic, ScriptError> {
+fn evaluate(
+    engine: &Engine,
+    session: &Shared,
+    file: &str,
+    prepared: &Prepared,
+    max_ops: u64,
+) -> Result<Dynamic, ScriptError> {
     let mut ast = engine.compile(&prepared.code).map_err(|e| from_parse(&session.lock().sources, file, &e))?;
     ast.set_source(file);
     let mut scope = Scope::new();
-    engine
-        .eval_ast_with_scope(&mut scope, &ast)
-        .map_err(|e| from_eval(&session.lock().sources, file, &e, max_ops))
+    engine.eval_ast_with_scope(&mut scope, &ast).map_err(|e| from_eval(&session.lock().sources, file, &e, max_ops))
 }
 
 /// Evaluate `text` as a script and return the value of its last statement (for tests and
 /// one-off evaluations); SI literals and modules work as in a script file.
-pub fn eval_source(engine: &Engine, session: &Shared, file: &str, text: &str, max_ops: u64) -> Result<Dynamic, ScriptError> {
+pub fn eval_source(
+    engine: &Engine,
+    session: &Shared,
+    file: &str,
+    text: &str,
+    max_ops: u64,
+) -> Result<Dynamic, ScriptError> {
     let prepared = prepare_into_session(session, file, text)?;
     evaluate(engine, session, file, &prepared, max_ops)
 }

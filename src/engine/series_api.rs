@@ -7,10 +7,17 @@ use super::docs::Doc;
 use super::value::to_f64;
 use crate::num::Series;
 
-
 pub const DOCS: &[Doc] = &[
-    Doc { name: "span", sig: "span(a: float, b: float, n: int) -> Series", summary: "n points from a to b inclusive, evenly spaced" },
-    Doc { name: "span_log", sig: "span_log(a: float, b: float, n: int) -> Series", summary: "n points from a to b inclusive, evenly spaced in log (a, b > 0)" },
+    Doc {
+        name: "span",
+        sig: "span(a: float, b: float, n: int) -> Series",
+        summary: "n points from a to b inclusive, evenly spaced",
+    },
+    Doc {
+        name: "span_log",
+        sig: "span_log(a: float, b: float, n: int) -> Series",
+        summary: "n points from a to b inclusive, evenly spaced in log (a, b > 0)",
+    },
     Doc { name: "series", sig: "series(values: array) -> Series", summary: "a Series from an array of numbers" },
     Doc { name: "zeros", sig: "zeros(n: int) -> Series", summary: "n zeros" },
     Doc { name: "to_array", sig: "s.to_array() -> array", summary: "the Series as an array of floats" },
@@ -23,9 +30,21 @@ pub const DOCS: &[Doc] = &[
     Doc { name: "max", sig: "s.max() -> float", summary: "largest element" },
     Doc { name: "argmin", sig: "s.argmin() -> int", summary: "index of the smallest element" },
     Doc { name: "argmax", sig: "s.argmax() -> int", summary: "index of the largest element" },
-    Doc { name: "quantile", sig: "s.quantile(p: float) -> float", summary: "p-quantile, 0 ≤ p ≤ 1, linear interpolation (numpy default)" },
-    Doc { name: "slice", sig: "s.slice(start: int, end: int) -> Series", summary: "elements start..end (end excluded); also s[a..b]" },
-    Doc { name: "select", sig: "s.select(mask: Series) -> Series", summary: "elements where mask is non-zero (masks come from s > x, s <= t, …)" },
+    Doc {
+        name: "quantile",
+        sig: "s.quantile(p: float) -> float",
+        summary: "p-quantile, 0 ≤ p ≤ 1, linear interpolation (numpy default)",
+    },
+    Doc {
+        name: "slice",
+        sig: "s.slice(start: int, end: int) -> Series",
+        summary: "elements start..end (end excluded); also s[a..b]",
+    },
+    Doc {
+        name: "select",
+        sig: "s.select(mask: Series) -> Series",
+        summary: "elements where mask is non-zero (masks come from s > x, s <= t, …)",
+    },
     Doc { name: "count", sig: "mask.count() -> int", summary: "number of non-zero elements" },
     Doc { name: "map", sig: "s.map(f: fn(float) -> float) -> Series", summary: "apply a function to every element" },
     Doc { name: "exp", sig: "exp(s: Series) -> Series", summary: "elementwise e^x" },
@@ -33,15 +52,19 @@ pub const DOCS: &[Doc] = &[
     Doc { name: "log10", sig: "log10(s: Series) -> Series", summary: "elementwise base-10 logarithm" },
     Doc { name: "sqrt", sig: "sqrt(s: Series) -> Series", summary: "elementwise square root" },
     Doc { name: "abs", sig: "abs(s: Series) -> Series", summary: "elementwise absolute value" },
-    Doc { name: "pow", sig: "pow(s: Series|float, p: float|Series) -> Series|float", summary: "elementwise power; also s ** p" },
+    Doc {
+        name: "pow",
+        sig: "pow(s: Series|float, p: float|Series) -> Series|float",
+        summary: "elementwise power; also s ** p",
+    },
 ];
-
 
 fn index(s: &Series, i: i64) -> R<usize> {
     let n = s.len() as i64;
     let k = if i < 0 { n + i } else { i };
     if k < 0 || k >= n {
-        let valid = if n == 0 { "it is empty".to_string() } else { format!("valid: 0..={} or -{n}..=-1 from the end", n - 1) };
+        let valid =
+            if n == 0 { "it is empty".to_string() } else { format!("valid: 0..={} or -{n}..=-1 from the end", n - 1) };
         return err(format!("index {i} is out of range for a Series of length {n} ({valid})"));
     }
     Ok(k as usize)
@@ -51,7 +74,9 @@ fn index(s: &Series, i: i64) -> R<usize> {
 pub fn from_array(a: &Array) -> R<Series> {
     a.iter()
         .enumerate()
-        .map(|(k, v)| to_f64(v).map_err(|_| format!("element {k} of the array is a {}, not a number", v.type_name()).into()))
+        .map(|(k, v)| {
+            to_f64(v).map_err(|_| format!("element {k} of the array is a {}, not a number", v.type_name()).into())
+        })
         .collect()
 }
 
@@ -76,7 +101,6 @@ fn reduce(s: &Series, what: &str, need: usize, f: impl Fn(&Series) -> f64) -> R<
     }
     Ok(f(s))
 }
-
 
 macro_rules! arith {
     ($engine:ident, $op:literal, $f:expr) => {{
@@ -131,7 +155,9 @@ pub fn register(engine: &mut Engine) {
         }
         Ok(Series::from(vec![0.0; n as usize]))
     });
-    engine.register_fn("to_array", |s: &mut Series| -> Array { s.as_slice().iter().map(|x| Dynamic::from_float(*x)).collect() });
+    engine.register_fn("to_array", |s: &mut Series| -> Array {
+        s.as_slice().iter().map(|x| Dynamic::from_float(*x)).collect()
+    });
     engine.register_fn("to_string", |s: &mut Series| format_series(s));
     engine.register_fn("to_debug", |s: &mut Series| format_series(s));
 

@@ -6,40 +6,106 @@ use rhai::{Array, Dynamic, Engine, Map};
 use super::docs::Doc;
 use super::session::Shared;
 use super::value::to_f64;
-use crate::num::si::eng;
 use crate::num::Series;
-use crate::timing::budget::budget;
+use crate::num::si::eng;
 use crate::physics::mirror::MirrorKind;
 use crate::physics::process::Process;
-use crate::timing::from_process::{osc_from, Choices};
-use crate::timing::keys::{def, Dflt, Kind, Mode};
-use crate::timing::transient::{simulate, Options, Transient, MAX_CYCLES};
+use crate::timing::budget::budget;
+use crate::timing::from_process::{Choices, osc_from};
+use crate::timing::keys::{Dflt, Kind, Mode, def};
+use crate::timing::transient::{MAX_CYCLES, Options, Transient, simulate};
 use crate::timing::{Cycle, Mask, Osc};
 
-
 pub const DOCS: &[Doc] = &[
-    Doc { name: "osc", sig: "osc(kind: string, params: map) -> Oscillator", summary: "an oscillator from explicit numbers; kinds \"rc-inverter\", \"schmitt\", \"window\", \"reset\", \"pingpong\"; keys c (F), i (A), r (Ω), v_lo, v_hi, vdd (V), temp (°C) and one key per parasitic (default ideal); osc_keys(kind) lists them" },
-    Doc { name: "osc_from", sig: "osc_from(process: Process|string, kind: string, params: map) -> Oscillator", summary: "an oscillator whose parts are devices of a process (a process object, or a built-in name such as \"demo180\"): mirrors, switches, input-pair comparators, process capacitor; device sizes mirror_w, mirror_l, sw_w, sw_l, cmp_w, cmp_l (m), cmp_itail (A), cmp_cload (F); inverter sizes inv_wn, inv_wp, inv_l (m); names cap_type (default \"mim\"), res_type (default \"rpoly\") and mirror (\"simple\", \"cascode\", \"wide-swing\"; default \"cascode\"); osc_keys(kind, \"process\") lists the keys" },
-    Doc { name: "osc_keys", sig: "osc_keys(kind: string) -> array", summary: "the keys an oscillator kind accepts in osc(), each as \"name (unit): meaning [default]\"" },
-    Doc { name: "osc_keys", sig: "osc_keys(kind: string, \"process\") -> array", summary: "the numeric keys of osc_from() for that kind" },
-    Doc { name: "corners", sig: "o.corners() -> array", summary: "the corners the oscillator can be evaluated at (o.at(#{corner: name}))" },
-    Doc { name: "ideal_period", sig: "o.ideal_period() -> float", summary: "the textbook period of the topology from its basic keys, s" },
-    Doc { name: "period", sig: "o.period() -> float", summary: "the period with every parasitic, in periodic steady state, s" },
+    Doc {
+        name: "osc",
+        sig: "osc(kind: string, params: map) -> Oscillator",
+        summary: "an oscillator from explicit numbers; kinds \"rc-inverter\", \"schmitt\", \"window\", \"reset\", \"pingpong\"; keys c (F), i (A), r (Ω), v_lo, v_hi, vdd (V), temp (°C) and one key per parasitic (default ideal); osc_keys(kind) lists them",
+    },
+    Doc {
+        name: "osc_from",
+        sig: "osc_from(process: Process|string, kind: string, params: map) -> Oscillator",
+        summary: "an oscillator whose parts are devices of a process (a process object, or a built-in name such as \"demo180\"): mirrors, switches, input-pair comparators, process capacitor; device sizes mirror_w, mirror_l, sw_w, sw_l, cmp_w, cmp_l (m), cmp_itail (A), cmp_cload (F); inverter sizes inv_wn, inv_wp, inv_l (m); names cap_type (default \"mim\"), res_type (default \"rpoly\") and mirror (\"simple\", \"cascode\", \"wide-swing\"; default \"cascode\"); osc_keys(kind, \"process\") lists the keys",
+    },
+    Doc {
+        name: "osc_keys",
+        sig: "osc_keys(kind: string) -> array",
+        summary: "the keys an oscillator kind accepts in osc(), each as \"name (unit): meaning [default]\"",
+    },
+    Doc {
+        name: "osc_keys",
+        sig: "osc_keys(kind: string, \"process\") -> array",
+        summary: "the numeric keys of osc_from() for that kind",
+    },
+    Doc {
+        name: "corners",
+        sig: "o.corners() -> array",
+        summary: "the corners the oscillator can be evaluated at (o.at(#{corner: name}))",
+    },
+    Doc {
+        name: "ideal_period",
+        sig: "o.ideal_period() -> float",
+        summary: "the textbook period of the topology from its basic keys, s",
+    },
+    Doc {
+        name: "period",
+        sig: "o.period() -> float",
+        summary: "the period with every parasitic, in periodic steady state, s",
+    },
     Doc { name: "frequency", sig: "o.frequency() -> float", summary: "1 / period with every parasitic, Hz" },
-    Doc { name: "duty", sig: "o.duty() -> float", summary: "fraction of the period in the first phase (charging; capacitor A; the reset pulse for \"reset\")" },
-    Doc { name: "v_peak", sig: "o.v_peak() -> float", summary: "highest node voltage over the cycle, overshoot included, V" },
-    Doc { name: "overshoot", sig: "o.overshoot() -> float", summary: "largest excursion of the node beyond a threshold caused by the delay chain, V" },
-    Doc { name: "cycle", sig: "o.cycle() -> map", summary: "period, frequency, duty, v_peak, v_valley (V), overshoot (V), iterations, phases (array of #{name, v_start, v_threshold, v_end, ramp, delay, slope})" },
-    Doc { name: "budget", sig: "o.budget() -> map", summary: "error budget: ideal, full, total_error, remainder, ideal_comparators, comparator_share, ideal_delay_chain, delay_chain_share (s); rows (array of #{parasitic, alone, alone_pct, step, step_pct, cumulative} for table; pct = % of the ideal period); waterfall and buildup (#{labels, y} for plot kind \"bar\", waterfall: true)" },
-    Doc { name: "at", sig: "o.at(#{temp: °C, vdd: V, corner: string}) -> Oscillator", summary: "the same oscillator at another operating point (any of the keys)" },
-    Doc { name: "modified", sig: "o.modified(params: map) -> Oscillator", summary: "a copy of the oscillator with some keys changed (checked like osc); o itself is unchanged" },
-    Doc { name: "sweep", sig: "o.sweep(key: string, values: Series) -> Series", summary: "period with every parasitic for each value of one key, s" },
+    Doc {
+        name: "duty",
+        sig: "o.duty() -> float",
+        summary: "fraction of the period in the first phase (charging; capacitor A; the reset pulse for \"reset\")",
+    },
+    Doc {
+        name: "v_peak",
+        sig: "o.v_peak() -> float",
+        summary: "highest node voltage over the cycle, overshoot included, V",
+    },
+    Doc {
+        name: "overshoot",
+        sig: "o.overshoot() -> float",
+        summary: "largest excursion of the node beyond a threshold caused by the delay chain, V",
+    },
+    Doc {
+        name: "cycle",
+        sig: "o.cycle() -> map",
+        summary: "period, frequency, duty, v_peak, v_valley (V), overshoot (V), iterations, phases (array of #{name, v_start, v_threshold, v_end, ramp, delay, slope})",
+    },
+    Doc {
+        name: "budget",
+        sig: "o.budget() -> map",
+        summary: "error budget: ideal, full, total_error, remainder, ideal_comparators, comparator_share, ideal_delay_chain, delay_chain_share (s); rows (array of #{parasitic, alone, alone_pct, step, step_pct, cumulative} for table; pct = % of the ideal period); waterfall and buildup (#{labels, y} for plot kind \"bar\", waterfall: true)",
+    },
+    Doc {
+        name: "at",
+        sig: "o.at(#{temp: °C, vdd: V, corner: string}) -> Oscillator",
+        summary: "the same oscillator at another operating point (any of the keys)",
+    },
+    Doc {
+        name: "modified",
+        sig: "o.modified(params: map) -> Oscillator",
+        summary: "a copy of the oscillator with some keys changed (checked like osc); o itself is unchanged",
+    },
+    Doc {
+        name: "sweep",
+        sig: "o.sweep(key: string, values: Series) -> Series",
+        summary: "period with every parasitic for each value of one key, s",
+    },
     Doc { name: "kind", sig: "o.kind() -> string", summary: "the topology name" },
     Doc { name: "params", sig: "o.params() -> map", summary: "the keys given, with their values" },
-    Doc { name: "simulate", sig: "o.simulate(cycles: int) -> map", summary: "behavioural transient run of 1..=100000 cycles with every parasitic, from a defined start (window, schmitt: node at the low threshold; reset, pingpong: capacitors at the reset level; rc-inverter: capacitor discharged, X = vdd): t (s) and v (V; v2 = capacitor B for pingpong) Series of the waveform, names (the nodes), events #{t (s), v (V), what (\"crossing\", \"decision\", \"switch\"), phase, label}, periods and duties (one per cycle), period (s) and duty of the steady state (mean of the last quarter of the cycles), frequency (Hz), settle_cycles (cycles more than 1e-6 off the steady period), v_min, v_max (V), steps" },
-    Doc { name: "simulate", sig: "o.simulate(cycles: int, options: map) -> map", summary: "as o.simulate(cycles), with options points_per_phase (0..=10000 waveform samples per phase; default 64, fewer for long runs), v0 (V, start voltage of the node, capacitor A or X), v0_b (V, start of pingpong capacitor B), rtol (integrator relative tolerance, 1e-13..=1e-4, default 1e-10)" },
+    Doc {
+        name: "simulate",
+        sig: "o.simulate(cycles: int) -> map",
+        summary: "behavioural transient run of 1..=100000 cycles with every parasitic, from a defined start (window, schmitt: node at the low threshold; reset, pingpong: capacitors at the reset level; rc-inverter: capacitor discharged, X = vdd): t (s) and v (V; v2 = capacitor B for pingpong) Series of the waveform, names (the nodes), events #{t (s), v (V), what (\"crossing\", \"decision\", \"switch\"), phase, label}, periods and duties (one per cycle), period (s) and duty of the steady state (mean of the last quarter of the cycles), frequency (Hz), settle_cycles (cycles more than 1e-6 off the steady period), v_min, v_max (V), steps",
+    },
+    Doc {
+        name: "simulate",
+        sig: "o.simulate(cycles: int, options: map) -> map",
+        summary: "as o.simulate(cycles), with options points_per_phase (0..=10000 waveform samples per phase; default 64, fewer for long runs), v0 (V, start voltage of the node, capacitor A or X), v0_b (V, start of pingpong capacitor B), rtol (integrator relative tolerance, 1e-13..=1e-4, default 1e-10)",
+    },
 ];
-
 
 /// Numbers of an option map, each named in errors.
 fn pairs(what: &str, m: &Map) -> R<Vec<(String, f64)>> {
@@ -71,7 +137,14 @@ fn cycle_map(c: &Cycle) -> Map {
         .map(|p| {
             let mut q = Map::new();
             q.insert("name".into(), Dynamic::from(p.name.to_string()));
-            for (k, v) in [("v_start", p.v_start), ("v_threshold", p.v_threshold), ("v_end", p.v_end), ("ramp", p.ramp), ("delay", p.delay), ("slope", p.slope)] {
+            for (k, v) in [
+                ("v_start", p.v_start),
+                ("v_threshold", p.v_threshold),
+                ("v_end", p.v_end),
+                ("ramp", p.ramp),
+                ("delay", p.delay),
+                ("slope", p.slope),
+            ] {
                 q.insert(k.into(), Dynamic::from_float(v));
             }
             Dynamic::from_map(q)
@@ -163,11 +236,15 @@ fn sim_options(m: &Map) -> R<Options> {
     let mut o = Options::default();
     for (k, v) in m {
         let num = |unit: &str| -> R<f64> {
-            to_f64(v).map_err(|_| format!("simulate: option '{k}' must be a number ({unit}), found {}", v.type_name()).into())
+            to_f64(v).map_err(|_| {
+                format!("simulate: option '{k}' must be a number ({unit}), found {}", v.type_name()).into()
+            })
         };
         match k.as_str() {
             "points_per_phase" => {
-                let n = v.as_int().map_err(|_| format!("simulate: option 'points_per_phase' must be an integer, found {}", v.type_name()))?;
+                let n = v.as_int().map_err(|_| {
+                    format!("simulate: option 'points_per_phase' must be an integer, found {}", v.type_name())
+                })?;
                 if n < 0 {
                     return Err(format!("simulate: option 'points_per_phase' must be in 0..=10000, got {n}").into());
                 }
@@ -176,7 +253,12 @@ fn sim_options(m: &Map) -> R<Options> {
             "v0" => o.v0 = Some(num("V")?),
             "v0_b" => o.v0_b = Some(num("V")?),
             "rtol" => o.rtol = Some(num("1")?),
-            other => return Err(format!("simulate: unknown option '{other}'; the options are points_per_phase, v0, v0_b, rtol").into()),
+            other => {
+                return Err(format!(
+                    "simulate: unknown option '{other}'; the options are points_per_phase, v0, v0_b, rtol"
+                )
+                .into());
+            }
         }
     }
     Ok(o)
@@ -195,7 +277,8 @@ fn transient_map(s: Transient) -> Map {
     }
     m.insert("names".into(), Dynamic::from_array(s.node_names.iter().map(|n| Dynamic::from(n.to_string())).collect()));
     // Labels repeat every cycle: one shared string per distinct label.
-    let mut labels: std::collections::HashMap<(&str, &str), (Dynamic, Dynamic, Dynamic)> = std::collections::HashMap::new();
+    let mut labels: std::collections::HashMap<(&str, &str), (Dynamic, Dynamic, Dynamic)> =
+        std::collections::HashMap::new();
     let (mut what, mut phase, mut label) = (Array::new(), Array::new(), Array::new());
     for e in &s.events {
         let (w, p, l) = labels
@@ -243,7 +326,15 @@ fn describe(o: &Osc) -> String {
             }
         })
         .collect();
-    format!("{} oscillator ({}; {} °C, {} V, {}): {}", o.kind().name(), o.origin(), o.env.temp_c, o.env.vdd, o.env.corner, given.join(", "))
+    format!(
+        "{} oscillator ({}; {} °C, {} V, {}): {}",
+        o.kind().name(),
+        o.origin(),
+        o.env.temp_c,
+        o.env.vdd,
+        o.env.corner,
+        given.join(", ")
+    )
 }
 
 fn key_help(k: Kind, mode: Mode) -> Array {
@@ -273,7 +364,8 @@ fn from_process(pr: &Process, k: &str, mut m: Map) -> R<Osc> {
         }
     };
     let cap_type = name("cap_type", "mim")?;
-    let mirror = lift(MirrorKind::parse(&name("mirror", "cascode")?).map_err(|e| format!("{what}: key 'mirror': {e}")))?;
+    let mirror =
+        lift(MirrorKind::parse(&name("mirror", "cascode")?).map_err(|e| format!("{what}: key 'mirror': {e}")))?;
     let res_type = name("res_type", "rpoly")?;
     lift(osc_from(pr, kind, Choices { cap_type, mirror, res_type }, &pairs(&what, &m)?))
 }
@@ -292,11 +384,15 @@ pub fn register(engine: &mut Engine, _session: &Shared) {
         match mode {
             "process" => Ok(key_help(kind(k)?, Mode::Process)),
             "explicit" => Ok(key_help(kind(k)?, Mode::Explicit)),
-            _ => Err(format!("osc_keys: the second argument must be \"explicit\" or \"process\", got \"{mode}\"").into()),
+            _ => {
+                Err(format!("osc_keys: the second argument must be \"explicit\" or \"process\", got \"{mode}\"").into())
+            }
         }
     });
     engine.register_fn("osc_from", |pr: Process, k: &str, m: Map| -> R<Osc> { from_process(&pr, k, m) });
-    engine.register_fn("osc_from", |name: &str, k: &str, m: Map| -> R<Osc> { from_process(&lift(Process::builtin(name))?, k, m) });
+    engine.register_fn("osc_from", |name: &str, k: &str, m: Map| -> R<Osc> {
+        from_process(&lift(Process::builtin(name))?, k, m)
+    });
     engine.register_fn("corners", |o: &mut Osc| -> Array { o.corners().into_iter().map(Dynamic::from).collect() });
 
     engine.register_fn("ideal_period", |o: &mut Osc| -> R<f64> { lift(o.ideal_period()) });
@@ -319,10 +415,22 @@ pub fn register(engine: &mut Engine, _session: &Shared) {
         let mut corner = None;
         for (k, v) in &m {
             match k.as_str() {
-                "temp" => temp = Some(to_f64(v).map_err(|_| format!("at: key 'temp' must be a number (°C), found {}", v.type_name()))?),
-                "vdd" => vdd = Some(to_f64(v).map_err(|_| format!("at: key 'vdd' must be a number (V), found {}", v.type_name()))?),
+                "temp" => {
+                    temp = Some(
+                        to_f64(v)
+                            .map_err(|_| format!("at: key 'temp' must be a number (°C), found {}", v.type_name()))?,
+                    )
+                }
+                "vdd" => {
+                    vdd = Some(
+                        to_f64(v)
+                            .map_err(|_| format!("at: key 'vdd' must be a number (V), found {}", v.type_name()))?,
+                    )
+                }
                 "corner" => {
-                    corner = Some(v.clone().into_string().map_err(|t| format!("at: key 'corner' must be a string, found {t}"))?)
+                    corner = Some(
+                        v.clone().into_string().map_err(|t| format!("at: key 'corner' must be a string, found {t}"))?,
+                    )
                 }
                 other => return Err(format!("at: unknown key '{other}'; the keys are temp, vdd, corner").into()),
             }
@@ -336,10 +444,6 @@ pub fn register(engine: &mut Engine, _session: &Shared) {
         Ok(transient_map(lift(simulate(o, cycles_arg(&cycles)?, &sim_options(&opts)?))?))
     });
     engine.register_fn("sweep", |o: &mut Osc, key: &str, values: Series| -> R<Series> {
-        values
-            .as_slice()
-            .iter()
-            .map(|x| lift(o.with(&[(key.to_string(), *x)]).and_then(|p| p.period())))
-            .collect()
+        values.as_slice().iter().map(|x| lift(o.with(&[(key.to_string(), *x)]).and_then(|p| p.period()))).collect()
     });
 }

@@ -62,11 +62,7 @@ pub fn integrate(f: impl Fn(f64) -> f64, a: f64, b: f64, rtol: f64) -> Result<f6
         if err <= rtol * total.abs() || err < 1e-300 {
             return Ok(total);
         }
-        let (k, _) = parts
-            .iter()
-            .enumerate()
-            .max_by(|x, y| x.1.2.1.partial_cmp(&y.1.2.1).unwrap())
-            .unwrap();
+        let (k, _) = parts.iter().enumerate().max_by(|x, y| x.1.2.1.partial_cmp(&y.1.2.1).unwrap()).unwrap();
         let (lo, hi, _) = parts.swap_remove(k);
         let mid = 0.5 * (lo + hi);
         parts.push((lo, mid, gk15(&f, lo, mid)));

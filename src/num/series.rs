@@ -60,7 +60,15 @@ impl Series {
             .as_slice()
             .iter()
             .enumerate()
-            .map(|(k, x)| if k == 0 { a } else if k == n - 1 { b } else { x.exp() })
+            .map(|(k, x)| {
+                if k == 0 {
+                    a
+                } else if k == n - 1 {
+                    b
+                } else {
+                    x.exp()
+                }
+            })
             .collect())
     }
 

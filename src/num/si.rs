@@ -5,16 +5,33 @@
 /// `u`, `µ` (micro sign) and `μ` (Greek mu) all mean micro. Centi, deci, deca and hecto are left
 /// out on purpose: they are not used in circuit work and would shadow unit symbols.
 pub const PREFIXES: &[(&str, i32)] = &[
-    ("q", -30), ("r", -27), ("y", -24), ("z", -21), ("a", -18), ("f", -15), ("p", -12),
-    ("n", -9), ("u", -6), ("µ", -6), ("μ", -6), ("m", -3), ("k", 3), ("M", 6), ("G", 9),
-    ("T", 12), ("P", 15), ("E", 18), ("Z", 21), ("Y", 24), ("R", 27), ("Q", 30),
+    ("q", -30),
+    ("r", -27),
+    ("y", -24),
+    ("z", -21),
+    ("a", -18),
+    ("f", -15),
+    ("p", -12),
+    ("n", -9),
+    ("u", -6),
+    ("µ", -6),
+    ("μ", -6),
+    ("m", -3),
+    ("k", 3),
+    ("M", 6),
+    ("G", 9),
+    ("T", 12),
+    ("P", 15),
+    ("E", 18),
+    ("Z", 21),
+    ("Y", 24),
+    ("R", 27),
+    ("Q", 30),
 ];
 
 /// Unit symbols that may follow a number (with or without a prefix); they are checked and
 /// dropped, since values inside tickwork are plain SI numbers.
-pub const UNITS: &[&str] = &[
-    "s", "F", "A", "V", "Ohm", "ohm", "Ω", "Hz", "W", "J", "S", "H", "C", "m",
-];
+pub const UNITS: &[&str] = &["s", "F", "A", "V", "Ohm", "ohm", "Ω", "Hz", "W", "J", "S", "H", "C", "m"];
 
 /// Exponent of ten for a suffix such as `p`, `pF`, `kOhm`, `V`, `ms`.
 /// A single character that is a prefix is always the prefix (`2m` is 2 milli, not 2 metres).
@@ -27,9 +44,10 @@ pub fn suffix_exponent(suffix: &str) -> Result<i32, String> {
     }
     for (p, e) in PREFIXES {
         if let Some(unit) = suffix.strip_prefix(p)
-            && UNITS.contains(&unit) {
-                return Ok(*e);
-            }
+            && UNITS.contains(&unit)
+        {
+            return Ok(*e);
+        }
     }
     let hint = match suffix.chars().next() {
         Some('K') => " (kilo is lower-case k)",
@@ -99,7 +117,10 @@ pub fn trim_zeros(s: &str) -> String {
 }
 
 /// Units shown without an SI prefix (common practice: nobody writes "50 m%" or "2 kppm").
-const PLAIN_UNITS: &[&str] = &["%", "ppm", "ppb", "dB", "dBc", "dBc/Hz", "dBm", "°C", "degC", "°", "deg", "ppm/°C", "%/°C", "%/V", "ppm/V", "σ", "sigma"];
+const PLAIN_UNITS: &[&str] = &[
+    "%", "ppm", "ppb", "dB", "dBc", "dBc/Hz", "dBm", "°C", "degC", "°", "deg", "ppm/°C", "%/°C", "%/V", "ppm/V", "σ",
+    "sigma",
+];
 
 /// Whether values in `unit` are written without an SI prefix.
 pub fn plain_unit(unit: &str) -> bool {
@@ -108,11 +129,7 @@ pub fn plain_unit(unit: &str) -> bool {
 
 /// `x` with `digits` significant digits and its unit: `3.33 µs`, `1.50 %`.
 pub fn value(x: f64, unit: &str, digits: usize) -> String {
-    if plain_unit(unit) {
-        format!("{} {unit}", plain(x, digits))
-    } else {
-        eng(x, unit, digits)
-    }
+    if plain_unit(unit) { format!("{} {unit}", plain(x, digits)) } else { eng(x, unit, digits) }
 }
 
 /// `digits` significant digits without a prefix; exponent form outside 1e-4 … 1e9.
@@ -214,7 +231,8 @@ pub fn parse_number(text: &str) -> Result<f64, String> {
     let split = t
         .char_indices()
         .find(|(k, c)| {
-            c.is_alphabetic() && !(*c == 'e' && t[k + 1..].starts_with(|d: char| d.is_ascii_digit() || d == '-' || d == '+'))
+            c.is_alphabetic()
+                && !(*c == 'e' && t[k + 1..].starts_with(|d: char| d.is_ascii_digit() || d == '-' || d == '+'))
         })
         .map(|(k, _)| k)
         .unwrap_or(t.len());

@@ -39,7 +39,10 @@ impl Capacitor {
         let ct = pr.capacitor(kind)?;
         for (n, x) in [("w", w), ("l", l)] {
             if !(x.is_finite() && x > 0.0 && x <= 1e-2) {
-                return Err(format!("capacitor '{kind}': {n} must be in 0 … 10.0 mm (exclusive of 0), got {}", super::mosfet::len(x)));
+                return Err(format!(
+                    "capacitor '{kind}': {n} must be in 0 … 10.0 mm (exclusive of 0), got {}",
+                    super::mosfet::len(x)
+                ));
             }
         }
         let c0 = (ct.c_area * w * l + ct.c_perim * 2.0 * (w + l)) * pr.cap_scale;

@@ -33,8 +33,12 @@ pub struct ComparatorSpec {
 
 impl ComparatorSpec {
     pub fn check(&self) -> Result<(), String> {
-        let pos = |n: &str, x: f64| if x.is_finite() && x > 0.0 { Ok(()) } else { Err(format!("comparator: {n} must be > 0, got {x}")) };
-        let nonneg = |n: &str, x: f64| if x.is_finite() && x >= 0.0 { Ok(()) } else { Err(format!("comparator: {n} must be ≥ 0, got {x}")) };
+        let pos = |n: &str, x: f64| {
+            if x.is_finite() && x > 0.0 { Ok(()) } else { Err(format!("comparator: {n} must be > 0, got {x}")) }
+        };
+        let nonneg = |n: &str, x: f64| {
+            if x.is_finite() && x >= 0.0 { Ok(()) } else { Err(format!("comparator: {n} must be ≥ 0, got {x}")) }
+        };
         if !(self.a0.is_finite() && self.a0 > 1.0) {
             return Err(format!("comparator: a0 must be > 1 V/V, got {}", self.a0));
         }
@@ -139,7 +143,7 @@ impl Comparator {
         let v_cm = stage.frame(d.v_cm);
         let vs = stage.tail_node(v_cm);
         let (id_on, gm, _, gds) = pair.ids_derivs(v_cm, vs, v_drain, temp);
-        if !(id_on >= 0.5 * id) {
+        if id_on.is_nan() || id_on < 0.5 * id {
             return Err(format!(
                 "comparator: at v_cm = {} V the tail current source has no headroom (each input device carries {:.3e} A of the intended {id:.3e} A); {}",
                 d.v_cm,
@@ -309,7 +313,12 @@ pub fn ramp_delay(a0: f64, tau: f64, slew: f64, dv: f64, slope: f64) -> f64 {
 /// Offset σ and input capacitance (at v_cm) of pair comparators whose input devices have the
 /// given gate areas (m²) at a fixed W/L ratio `w_over_l`, the rest of the design as `base`:
 /// the area trade-off (Pelgrom 1989: σ ∝ 1/√area, capacitance ∝ area). Returns (σ V, C F).
-pub fn pair_tradeoff(pr: &Process, base: &PairDesign, w_over_l: f64, areas: &[f64]) -> Result<(Vec<f64>, Vec<f64>), String> {
+pub fn pair_tradeoff(
+    pr: &Process,
+    base: &PairDesign,
+    w_over_l: f64,
+    areas: &[f64],
+) -> Result<(Vec<f64>, Vec<f64>), String> {
     if !(w_over_l.is_finite() && w_over_l > 0.0) {
         return Err(format!("pair_tradeoff: w_over_l must be > 0, got {w_over_l}"));
     }

@@ -7,7 +7,12 @@ pub fn softplus(y: f64) -> f64 {
 
 /// 1/(1 + e^−y) without overflow.
 pub fn sigmoid(y: f64) -> f64 {
-    if y >= 0.0 { 1.0 / (1.0 + (-y).exp()) } else { let e = y.exp(); e / (1.0 + e) }
+    if y >= 0.0 {
+        1.0 / (1.0 + (-y).exp())
+    } else {
+        let e = y.exp();
+        e / (1.0 + e)
+    }
 }
 
 /// Normalised current F(x) = ln²(1 + e^{x/2}) (Enz, Krummenacher, Vittoz 1995, eq. for i_f, i_r).

@@ -81,7 +81,10 @@ impl Mirror {
     /// headroom is then vdd − v_out.
     pub fn sourcing(&self, vdd: f64) -> Result<Mirror, String> {
         if !matches!(self.model, Model::Explicit { .. }) {
-            return Err("mirror: only a behavioural mirror can be turned into a source; use type \"p\" for a device mirror".into());
+            return Err(
+                "mirror: only a behavioural mirror can be turned into a source; use type \"p\" for a device mirror"
+                    .into(),
+            );
         }
         if !(vdd.is_finite() && vdd > 0.0) {
             return Err(format!("mirror: vdd must be > 0 V, got {vdd}"));
@@ -143,7 +146,15 @@ impl Mirror {
                 (vg, vb)
             }
         };
-        Ok(Mirror { kind, polarity, i_ref, ratio, vdd: pr.vdd, temp, model: Model::Devices { m_in, m_out, c_out, vg, vb } })
+        Ok(Mirror {
+            kind,
+            polarity,
+            i_ref,
+            ratio,
+            vdd: pr.vdd,
+            temp,
+            model: Model::Devices { m_in, m_out, c_out, vg, vb },
+        })
     }
 
     /// Output voltage in the mirror's own frame (distance from its rail), V; its own inverse,

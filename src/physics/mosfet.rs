@@ -207,7 +207,8 @@ impl Mos {
         // Saturation estimate; the true Vgs is not below it because the reverse term only
         // subtracts current.
         let m = 1.0 + self.lambda() * vds;
-        let lo = self.vt(temp_c) + self.p.n * thermal_voltage(temp_c) * ekv::f_inv(id / (self.i_spec(temp_c) * m)) - 1e-3;
+        let lo =
+            self.vt(temp_c) + self.p.n * thermal_voltage(temp_c) * ekv::f_inv(id / (self.i_spec(temp_c) * m)) - 1e-3;
         let f = |v: f64| self.id(v, vds, temp_c) - id;
         let mut hi = lo + 0.1;
         while f(hi) < 0.0 {

@@ -125,7 +125,9 @@ impl Process {
     pub fn builtin(name: &str) -> Result<Process, String> {
         match name {
             "demo180" => Ok(Process::demo180()),
-            _ => Err(format!("no built-in process '{name}'; built-in processes: demo180 (use process_file(path) for a TOML file)")),
+            _ => Err(format!(
+                "no built-in process '{name}'; built-in processes: demo180 (use process_file(path) for a TOML file)"
+            )),
         }
     }
 
@@ -270,15 +272,75 @@ impl MosParams {
     /// The parameters in the order of `MOS_KEYS`.
     pub fn values(&self) -> [f64; 20] {
         [
-            self.vth0, self.tc_vth, self.kp, self.mu_exp, self.n, self.lambda_l, self.cox, self.cgso, self.cgdo, self.cj,
-            self.cjsw, self.pb, self.pbsw, self.mj, self.mjsw, self.ldiff, self.avt, self.abeta, self.lmin, self.wmin,
+            self.vth0,
+            self.tc_vth,
+            self.kp,
+            self.mu_exp,
+            self.n,
+            self.lambda_l,
+            self.cox,
+            self.cgso,
+            self.cgdo,
+            self.cj,
+            self.cjsw,
+            self.pb,
+            self.pbsw,
+            self.mj,
+            self.mjsw,
+            self.ldiff,
+            self.avt,
+            self.abeta,
+            self.lmin,
+            self.wmin,
         ]
     }
 
     /// Parameters from values in the order of `MOS_KEYS`.
     pub fn from_values(v: [f64; 20]) -> MosParams {
-        let [vth0, tc_vth, kp, mu_exp, n, lambda_l, cox, cgso, cgdo, cj, cjsw, pb, pbsw, mj, mjsw, ldiff, avt, abeta, lmin, wmin] = v;
-        MosParams { vth0, tc_vth, kp, mu_exp, n, lambda_l, cox, cgso, cgdo, cj, cjsw, pb, pbsw, mj, mjsw, ldiff, avt, abeta, lmin, wmin }
+        let [
+            vth0,
+            tc_vth,
+            kp,
+            mu_exp,
+            n,
+            lambda_l,
+            cox,
+            cgso,
+            cgdo,
+            cj,
+            cjsw,
+            pb,
+            pbsw,
+            mj,
+            mjsw,
+            ldiff,
+            avt,
+            abeta,
+            lmin,
+            wmin,
+        ] = v;
+        MosParams {
+            vth0,
+            tc_vth,
+            kp,
+            mu_exp,
+            n,
+            lambda_l,
+            cox,
+            cgso,
+            cgdo,
+            cj,
+            cjsw,
+            pb,
+            pbsw,
+            mj,
+            mjsw,
+            ldiff,
+            avt,
+            abeta,
+            lmin,
+            wmin,
+        }
     }
 
     /// Check explicit parameters against the ranges a process file allows; errors name the key.
@@ -458,11 +520,19 @@ impl<'a> Reader<'a> {
             None => return Ok(None),
             Some(toml::Value::Float(x)) => *x,
             Some(toml::Value::Integer(i)) => *i as f64,
-            Some(toml::Value::String(s)) => crate::num::si::parse_number(s).map_err(|e| format!("{}: key '{full}': {e}", self.file))?,
+            Some(toml::Value::String(s)) => {
+                crate::num::si::parse_number(s).map_err(|e| format!("{}: key '{full}': {e}", self.file))?
+            }
             Some(v) => return Err(format!("{}: key '{full}' must be a number, found {}", self.file, a_type(v))),
         };
         if !(x.is_finite() && x >= lo && x <= hi) {
-            return Err(format!("{}: key '{full}' = {} is out of range; allowed {}..{} {unit}", self.file, short(x), short(lo), short(hi)));
+            return Err(format!(
+                "{}: key '{full}' = {} is out of range; allowed {}..{} {unit}",
+                self.file,
+                short(x),
+                short(lo),
+                short(hi)
+            ));
         }
         Ok(Some(x))
     }
@@ -471,8 +541,14 @@ impl<'a> Reader<'a> {
         match unknown.first() {
             None => Ok(()),
             Some(k) => {
-                let where_ = if self.path.is_empty() { "at the top level".to_string() } else { format!("in [{}]", self.path) };
-                Err(format!("{}: unknown key '{}' {where_}; known keys: {}", self.file, self.full(k), self.used.join(", ")))
+                let where_ =
+                    if self.path.is_empty() { "at the top level".to_string() } else { format!("in [{}]", self.path) };
+                Err(format!(
+                    "{}: unknown key '{}' {where_}; known keys: {}",
+                    self.file,
+                    self.full(k),
+                    self.used.join(", ")
+                ))
             }
         }
     }

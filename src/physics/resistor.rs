@@ -1,6 +1,6 @@
 //! Resistors with temperature and voltage coefficients.
-use super::mosfet::len;
 use super::mismatch;
+use super::mosfet::len;
 use super::process::Process;
 
 #[derive(Clone, Debug, PartialEq)]

@@ -25,9 +25,17 @@ impl SwitchKind {
 #[derive(Clone, Debug, PartialEq)]
 #[allow(clippy::large_enum_variant)]
 enum Model {
-    Devices { n: Option<Mos>, p: Option<Mos> },
+    Devices {
+        n: Option<Mos>,
+        p: Option<Mos>,
+    },
     /// Explicit numbers: constant on-resistance, node capacitance, channel charge, overlap.
-    Explicit { ron: f64, c_node: f64, q_ch: f64, c_ov: f64 },
+    Explicit {
+        ron: f64,
+        c_node: f64,
+        q_ch: f64,
+        c_ov: f64,
+    },
 }
 
 /// A switch in a given state (on or off) at a supply and temperature.
@@ -54,9 +62,13 @@ impl Switch {
     /// A switch of the process: NMOS or PMOS of W/L, or a transmission gate of an NMOS of
     /// `w` and a PMOS of `w_p` (both of length `l`); at the process's (corner) supply and temperature.
     pub fn from_process(pr: &Process, kind: SwitchKind, w: f64, w_p: f64, l: f64) -> Result<Switch, String> {
-        let n = matches!(kind, SwitchKind::N | SwitchKind::Tg).then(|| Mos::from_process(pr, MosType::N, w, l)).transpose()?;
+        let n = matches!(kind, SwitchKind::N | SwitchKind::Tg)
+            .then(|| Mos::from_process(pr, MosType::N, w, l))
+            .transpose()?;
         let pw = if kind == SwitchKind::P { w } else { w_p };
-        let p = matches!(kind, SwitchKind::P | SwitchKind::Tg).then(|| Mos::from_process(pr, MosType::P, pw, l)).transpose()?;
+        let p = matches!(kind, SwitchKind::P | SwitchKind::Tg)
+            .then(|| Mos::from_process(pr, MosType::P, pw, l))
+            .transpose()?;
         Ok(Switch { kind, model: Model::Devices { n, p }, vdd: pr.vdd, temp: pr.temp, on: false })
     }
 
@@ -110,7 +122,8 @@ impl Switch {
             Model::Explicit { c_node, .. } => *c_node,
             Model::Devices { n, p } => {
                 let vg = if self.on { self.vdd } else { 0.0 };
-                let cn = n.as_ref().map_or(0.0, |m| m.cj_diffusion(v_node) + m.caps_b(vg, v_node, v_node, self.temp).cgd);
+                let cn =
+                    n.as_ref().map_or(0.0, |m| m.cj_diffusion(v_node) + m.caps_b(vg, v_node, v_node, self.temp).cgd);
                 let vp = self.vdd - v_node;
                 let cp = p.as_ref().map_or(0.0, |m| m.cj_diffusion(vp) + m.caps_b(vg, vp, vp, self.temp).cgd);
                 cn + cp

@@ -41,7 +41,9 @@ pub fn render(r: &Report, prov: &Provenance) -> String {
                 Group::List(items) => {
                     for it in items {
                         match it {
-                            Item::Show { label, value } => s.push_str(&format!("- **{}**: {}\n", escape(label), escape(value))),
+                            Item::Show { label, value } => {
+                                s.push_str(&format!("- **{}**: {}\n", escape(label), escape(value)))
+                            }
                             Item::Metric(m) => s.push_str(&format!("- {}\n", metric_line(m))),
                             _ => {}
                         }

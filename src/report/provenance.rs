@@ -63,10 +63,8 @@ pub fn sha256_hex(bytes: &[u8]) -> String {
 
 /// The current UTC time as `YYYY-MM-DDTHH:MM:SSZ` (ISO 8601).
 pub fn utc_now() -> String {
-    let secs = std::time::SystemTime::now()
-        .duration_since(std::time::UNIX_EPOCH)
-        .map(|d| d.as_secs() as i64)
-        .unwrap_or(0);
+    let secs =
+        std::time::SystemTime::now().duration_since(std::time::UNIX_EPOCH).map(|d| d.as_secs() as i64).unwrap_or(0);
     utc_text(secs)
 }
 

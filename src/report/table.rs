@@ -34,7 +34,10 @@ impl Table {
         if let Some(c) = cols.iter().find(|c| c.cells.len() != n) {
             return Err(format!(
                 "columns differ in length: '{}' has {} values, '{}' has {}",
-                first.name, n, c.name, c.cells.len()
+                first.name,
+                n,
+                c.name,
+                c.cells.len()
             ));
         }
         let headers = cols
@@ -64,7 +67,8 @@ impl Table {
             format!("| {} |\n", inner.join(" | "))
         };
         let mut s = line(&self.headers);
-        let delim: Vec<String> = self.numeric.iter().map(|&n| if n { "---:".to_string() } else { "---".to_string() }).collect();
+        let delim: Vec<String> =
+            self.numeric.iter().map(|&n| if n { "---:".to_string() } else { "---".to_string() }).collect();
         s.push_str(&format!("| {} |\n", delim.join(" | ")));
         for r in &self.rows {
             s.push_str(&line(r));
@@ -85,7 +89,11 @@ mod tests {
     #[test]
     fn renders_gfm() {
         let cols = vec![
-            Column { name: "corner".into(), unit: String::new(), cells: vec![Cell::Text("ss|cold".into()), Cell::Text("ff".into())] },
+            Column {
+                name: "corner".into(),
+                unit: String::new(),
+                cells: vec![Cell::Text("ss|cold".into()), Cell::Text("ff".into())],
+            },
             Column { name: "period".into(), unit: "s".into(), cells: vec![Cell::Num(2.5e-7), Cell::Num(2.4e-7)] },
         ];
         let t = Table::from_columns(&cols, 3).unwrap();

@@ -105,14 +105,17 @@ impl Origin for ProcessOrigin {
         let kind = p.kind;
         let what = |e: String, part: &str| format!("osc_from(\"{}\"): {part}: {e}", kind.name());
         let ct = pr.capacitor(&self.choices.cap_type)?;
-        let cap = Capacitor::new(p.get("c") * pr.cap_scale, ct.vc1, ct.vc2, ct.tc1, ct.tc2, pr.tnom).map_err(|e| what(e, "capacitor"))?;
+        let cap = Capacitor::new(p.get("c") * pr.cap_scale, ct.vc1, ct.vc2, ct.tc1, ct.tc2, pr.tnom)
+            .map_err(|e| what(e, "capacitor"))?;
         if kind == Kind::RcInverter {
             return self.rc_inverter(&pr, p, cap);
         }
         let i = p.get("i");
         let (mw, ml) = (p.get("mirror_w"), p.get("mirror_l"));
         let margin = if self.choices.mirror == MirrorKind::WideSwing { WIDE_SWING_MARGIN } else { 0.0 };
-        let mirror = |t: MosType| Mirror::from_process(&pr, self.choices.mirror, t, i, 1.0, mw, ml, margin).map_err(|e| what(e, "mirror"));
+        let mirror = |t: MosType| {
+            Mirror::from_process(&pr, self.choices.mirror, t, i, 1.0, mw, ml, margin).map_err(|e| what(e, "mirror"))
+        };
         let charge = MirrorSource { mirror: mirror(MosType::P)?, nominal: i };
         let discharge = MirrorSource { mirror: mirror(MosType::N)?, nominal: i * (1.0 + p.get("i_mismatch")) };
         let (sw, sl) = (p.get("sw_w"), p.get("sw_l"));
@@ -187,14 +190,17 @@ impl ProcessOrigin {
     /// from the process devices at the operating temperature and supply.
     fn rc_inverter(&self, pr: &Process, p: &Params, cap: Capacitor) -> Result<Parts, String> {
         let ly = pr.resistor(&self.choices.res_type)?;
-        let res = Resistor::new(p.get("r") * pr.res_scale, ly.tc1, ly.tc2, ly.vc, pr.tnom).map_err(|e| format!("osc_from(\"rc-inverter\"): resistor: {e}"))?;
+        let res = Resistor::new(p.get("r") * pr.res_scale, ly.tc1, ly.tc2, ly.vc, pr.tnom)
+            .map_err(|e| format!("osc_from(\"rc-inverter\"): resistor: {e}"))?;
         let temp = p.get("temp");
         let n = Mos::from_process(pr, MosType::N, p.get("inv_wn"), p.get("inv_l"))?;
         let pm = Mos::from_process(pr, MosType::P, p.get("inv_wp"), p.get("inv_l"))?;
         let v_th = inverter_vm(pr.vdd, n.vt(temp), pm.vt(temp), pm.beta(temp) / n.beta(temp));
-        let cmp: Arc<dyn ComparatorPart> = Arc::new(FixedComparator { vos: p.get("vos"), c_in: p.get("c_in"), t0: 0.0 });
+        let cmp: Arc<dyn ComparatorPart> =
+            Arc::new(FixedComparator { vos: p.get("vos"), c_in: p.get("c_in"), t0: 0.0 });
         // The RC astable has no current sources; ideal placeholders keep the parts complete.
-        let none = Arc::new(super::parts::MirrorOut { i: 0.0, tc: 0.0, r_out: f64::INFINITY, v_ds_ref: 0.0, high_side: true });
+        let none =
+            Arc::new(super::parts::MirrorOut { i: 0.0, tc: 0.0, r_out: f64::INFINITY, v_ds_ref: 0.0, high_side: true });
         Ok(Parts {
             cap: Arc::new(cap),
             node: Arc::new(SwitchSet(vec![])),

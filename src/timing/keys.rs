@@ -1,7 +1,7 @@
 //! Topology kinds and their parameter keys: units, defaults, ranges, and which parasitic each
 //! key belongs to. A map with only the basic keys is the ideal circuit.
-use std::collections::BTreeMap;
 use crate::num::si::eng_exact;
+use std::collections::BTreeMap;
 
 use super::parasitic::Parasitic;
 
@@ -41,20 +41,91 @@ impl Kind {
             Mode::Process => match self {
                 Kind::RcInverter => &["c", "r", "vdd", "temp", "inv_wn", "inv_wp", "inv_l", "c_in", "vos", "t_logic"],
                 Kind::Schmitt => &[
-                    "c", "i", "vdd", "temp", "ratio_n", "ratio_p", "mirror_w", "mirror_l", "sw_w", "sw_l", "c_in",
-                    "i_mismatch", "vos_hi", "vos_lo", "t_cmp", "t_logic", "t_sw",
+                    "c",
+                    "i",
+                    "vdd",
+                    "temp",
+                    "ratio_n",
+                    "ratio_p",
+                    "mirror_w",
+                    "mirror_l",
+                    "sw_w",
+                    "sw_l",
+                    "c_in",
+                    "i_mismatch",
+                    "vos_hi",
+                    "vos_lo",
+                    "t_cmp",
+                    "t_logic",
+                    "t_sw",
                 ],
                 Kind::Window => &[
-                    "c", "i", "v_lo", "v_hi", "vdd", "temp", "mirror_w", "mirror_l", "sw_w", "sw_l", "cmp_w", "cmp_l",
-                    "cmp_itail", "cmp_cload", "cmp_vsw", "t_cmp", "i_mismatch", "vos_hi", "vos_lo", "t_latch", "t_logic", "t_sw",
+                    "c",
+                    "i",
+                    "v_lo",
+                    "v_hi",
+                    "vdd",
+                    "temp",
+                    "mirror_w",
+                    "mirror_l",
+                    "sw_w",
+                    "sw_l",
+                    "cmp_w",
+                    "cmp_l",
+                    "cmp_itail",
+                    "cmp_cload",
+                    "cmp_vsw",
+                    "t_cmp",
+                    "i_mismatch",
+                    "vos_hi",
+                    "vos_lo",
+                    "t_latch",
+                    "t_logic",
+                    "t_sw",
                 ],
                 Kind::Reset => &[
-                    "c", "i", "v_lo", "v_hi", "vdd", "temp", "mirror_w", "mirror_l", "sw_w", "sw_l", "cmp_w", "cmp_l",
-                    "cmp_itail", "cmp_cload", "cmp_vsw", "t_cmp", "vos", "t_logic", "t_reset",
+                    "c",
+                    "i",
+                    "v_lo",
+                    "v_hi",
+                    "vdd",
+                    "temp",
+                    "mirror_w",
+                    "mirror_l",
+                    "sw_w",
+                    "sw_l",
+                    "cmp_w",
+                    "cmp_l",
+                    "cmp_itail",
+                    "cmp_cload",
+                    "cmp_vsw",
+                    "t_cmp",
+                    "vos",
+                    "t_logic",
+                    "t_reset",
                 ],
                 Kind::PingPong => &[
-                    "c", "i", "v_lo", "v_hi", "vdd", "temp", "mirror_w", "mirror_l", "sw_w", "sw_l", "cmp_w", "cmp_l",
-                    "cmp_itail", "cmp_cload", "cmp_vsw", "t_cmp", "vos", "c_mismatch", "t_latch", "t_logic", "t_sw",
+                    "c",
+                    "i",
+                    "v_lo",
+                    "v_hi",
+                    "vdd",
+                    "temp",
+                    "mirror_w",
+                    "mirror_l",
+                    "sw_w",
+                    "sw_l",
+                    "cmp_w",
+                    "cmp_l",
+                    "cmp_itail",
+                    "cmp_cload",
+                    "cmp_vsw",
+                    "t_cmp",
+                    "vos",
+                    "c_mismatch",
+                    "t_latch",
+                    "t_logic",
+                    "t_sw",
                 ],
             },
         }
@@ -79,27 +150,110 @@ impl Kind {
     pub fn keys(self) -> &'static [&'static str] {
         match self {
             Kind::RcInverter => &[
-                "c", "r", "vdd", "temp", "v_th", "vtn", "vtp", "ratio_pn", "tc_vt", "tc_r", "tc_c", "r_vc", "c_in", "vos", "t_logic",
+                "c", "r", "vdd", "temp", "v_th", "vtn", "vtp", "ratio_pn", "tc_vt", "tc_r", "tc_c", "r_vc", "c_in",
+                "vos", "t_logic",
             ],
             Kind::Schmitt => &[
-                "c", "i", "r", "v_lo", "v_hi", "vdd", "temp", "vtn", "vtp", "ratio_n", "ratio_p", "tc_vt", "tc_i",
-                "tc_r", "tc_c", "r_vc", "c_vc1", "c_vc2", "c_swn", "c_swp", "sw_phi", "sw_m", "c_in", "r_out", "v_ds_ref",
-                "i_mismatch", "vos_hi", "vos_lo", "t_cmp", "cmp_gbw", "cmp_a0", "cmp_slew", "cmp_vsw", "t_logic", "t_sw",
+                "c",
+                "i",
+                "r",
+                "v_lo",
+                "v_hi",
+                "vdd",
+                "temp",
+                "vtn",
+                "vtp",
+                "ratio_n",
+                "ratio_p",
+                "tc_vt",
+                "tc_i",
+                "tc_r",
+                "tc_c",
+                "r_vc",
+                "c_vc1",
+                "c_vc2",
+                "c_swn",
+                "c_swp",
+                "sw_phi",
+                "sw_m",
+                "c_in",
+                "r_out",
+                "v_ds_ref",
+                "i_mismatch",
+                "vos_hi",
+                "vos_lo",
+                "t_cmp",
+                "cmp_gbw",
+                "cmp_a0",
+                "cmp_slew",
+                "cmp_vsw",
+                "t_logic",
+                "t_sw",
             ],
             Kind::Window => &[
-                "c", "i", "v_lo", "v_hi", "vdd", "temp", "tc_i", "tc_c", "c_vc1", "c_vc2", "c_swn", "c_swp", "sw_phi",
-                "sw_m", "c_in", "r_out", "v_ds_ref", "i_mismatch", "vos_hi", "vos_lo", "t_cmp", "cmp_gbw", "cmp_a0", "cmp_slew", "cmp_vsw",
-                "t_latch", "t_logic", "t_sw",
+                "c",
+                "i",
+                "v_lo",
+                "v_hi",
+                "vdd",
+                "temp",
+                "tc_i",
+                "tc_c",
+                "c_vc1",
+                "c_vc2",
+                "c_swn",
+                "c_swp",
+                "sw_phi",
+                "sw_m",
+                "c_in",
+                "r_out",
+                "v_ds_ref",
+                "i_mismatch",
+                "vos_hi",
+                "vos_lo",
+                "t_cmp",
+                "cmp_gbw",
+                "cmp_a0",
+                "cmp_slew",
+                "cmp_vsw",
+                "t_latch",
+                "t_logic",
+                "t_sw",
             ],
             Kind::Reset => &[
                 "c", "i", "v_lo", "v_hi", "vdd", "temp", "tc_i", "tc_c", "c_vc1", "c_vc2", "c_swn", "c_swp", "sw_phi",
-                "sw_m", "c_in", "r_out", "v_ds_ref", "vos", "t_cmp", "cmp_gbw", "cmp_a0", "cmp_slew", "cmp_vsw", "t_logic", "t_reset",
-                "r_reset",
+                "sw_m", "c_in", "r_out", "v_ds_ref", "vos", "t_cmp", "cmp_gbw", "cmp_a0", "cmp_slew", "cmp_vsw",
+                "t_logic", "t_reset", "r_reset",
             ],
             Kind::PingPong => &[
-                "c", "i", "v_lo", "v_hi", "vdd", "temp", "tc_i", "tc_c", "c_vc1", "c_vc2", "c_swn", "c_swp", "sw_phi",
-                "sw_m", "c_in", "r_out", "v_ds_ref", "c_mismatch", "vos", "t_cmp", "cmp_gbw", "cmp_a0", "cmp_slew", "cmp_vsw", "t_latch",
-                "t_logic", "t_sw", "r_reset",
+                "c",
+                "i",
+                "v_lo",
+                "v_hi",
+                "vdd",
+                "temp",
+                "tc_i",
+                "tc_c",
+                "c_vc1",
+                "c_vc2",
+                "c_swn",
+                "c_swp",
+                "sw_phi",
+                "sw_m",
+                "c_in",
+                "r_out",
+                "v_ds_ref",
+                "c_mismatch",
+                "vos",
+                "t_cmp",
+                "cmp_gbw",
+                "cmp_a0",
+                "cmp_slew",
+                "cmp_vsw",
+                "t_latch",
+                "t_logic",
+                "t_sw",
+                "r_reset",
             ],
         }
     }
@@ -173,23 +327,77 @@ pub const KEYS: &[KeyDef] = &[
     k!("r_vc", "1/V", Value(0.0), -0.1, 0.1, false, Some(P::ResVc), "resistor R(V) = r·(1 + r_vc·|V|), V across it"),
     k!("c_vc1", "1/V", Value(0.0), -0.1, 0.1, false, Some(P::CapVc), "capacitor C(V) = c·(1 + c_vc1·V + c_vc2·V²)"),
     k!("c_vc2", "1/V²", Value(0.0), -0.1, 0.1, false, Some(P::CapVc), "second-order capacitor voltage coefficient"),
-    k!("c_swn", "F", Value(0.0), 0.0, 1e-6, false, Some(P::SwitchCap), "zero-bias n-junction capacitance of the switches on the node (reverse bias V)"),
-    k!("c_swp", "F", Value(0.0), 0.0, 1e-6, false, Some(P::SwitchCap), "zero-bias p-junction capacitance of the switches on the node (reverse bias vdd − V)"),
+    k!(
+        "c_swn",
+        "F",
+        Value(0.0),
+        0.0,
+        1e-6,
+        false,
+        Some(P::SwitchCap),
+        "zero-bias n-junction capacitance of the switches on the node (reverse bias V)"
+    ),
+    k!(
+        "c_swp",
+        "F",
+        Value(0.0),
+        0.0,
+        1e-6,
+        false,
+        Some(P::SwitchCap),
+        "zero-bias p-junction capacitance of the switches on the node (reverse bias vdd − V)"
+    ),
     k!("sw_phi", "V", Value(0.8), 0.0, 5.0, true, Some(P::SwitchCap), "junction built-in potential"),
     k!("sw_m", "1", Value(0.5), 0.0, 1.0, true, Some(P::SwitchCap), "junction grading exponent"),
-    k!("c_in", "F", Value(0.0), 0.0, 1e-6, false, Some(P::InputCap), "input capacitance of each comparator (trigger, inverter) on the node"),
+    k!(
+        "c_in",
+        "F",
+        Value(0.0),
+        0.0,
+        1e-6,
+        false,
+        Some(P::InputCap),
+        "input capacitance of each comparator (trigger, inverter) on the node"
+    ),
     k!("r_out", "Ω", Value(INF), 0.0, INF, true, Some(P::MirrorRout), "output resistance of each current mirror"),
-    k!("v_ds_ref", "V", Value(0.6), 0.0, 100.0, false, Some(P::MirrorRout), "|Vds| at which a mirror gives exactly its nominal current"),
+    k!(
+        "v_ds_ref",
+        "V",
+        Value(0.6),
+        0.0,
+        100.0,
+        false,
+        Some(P::MirrorRout),
+        "|Vds| at which a mirror gives exactly its nominal current"
+    ),
     k!("i_mismatch", "1", Value(0.0), -0.9, 0.9, false, Some(P::Mismatch), "discharge current = i·(1 + i_mismatch)"),
     k!("c_mismatch", "1", Value(0.0), -0.9, 0.9, false, Some(P::CapMismatch), "second capacitor = c·(1 + c_mismatch)"),
     k!("vos_hi", "V", Value(0.0), -1.0, 1.0, false, Some(P::Offset), "offset of the high comparator (moves v_hi)"),
     k!("vos_lo", "V", Value(0.0), -1.0, 1.0, false, Some(P::Offset), "offset of the low comparator (moves v_lo)"),
     k!("vos", "V", Value(0.0), -1.0, 1.0, false, Some(P::Offset), "comparator offset / threshold shift"),
     k!("t_cmp", "s", Value(0.0), 0.0, 1.0, false, Some(P::CmpDelay), "fixed part of the comparator delay"),
-    k!("cmp_gbw", "Hz", Value(INF), 0.0, INF, true, Some(P::CmpDelay), "comparator gain-bandwidth (ramp-slope dependent delay)"),
+    k!(
+        "cmp_gbw",
+        "Hz",
+        Value(INF),
+        0.0,
+        INF,
+        true,
+        Some(P::CmpDelay),
+        "comparator gain-bandwidth (ramp-slope dependent delay)"
+    ),
     k!("cmp_a0", "1", Value(1e4), 1.0, 1e12, true, Some(P::CmpDelay), "comparator DC gain (V/V)"),
     k!("cmp_slew", "V/s", Value(INF), 0.0, INF, true, Some(P::CmpDelay), "comparator output slew rate"),
-    k!("cmp_vsw", "V", Derived, 0.0, 100.0, true, Some(P::CmpDelay), "comparator output swing to switch the latch (default vdd/2)"),
+    k!(
+        "cmp_vsw",
+        "V",
+        Derived,
+        0.0,
+        100.0,
+        true,
+        Some(P::CmpDelay),
+        "comparator output swing to switch the latch (default vdd/2)"
+    ),
     k!("t_latch", "s", Value(0.0), 0.0, 1.0, false, Some(P::LogicDelay), "latch (flip-flop) delay"),
     k!("t_logic", "s", Value(0.0), 0.0, 1.0, false, Some(P::LogicDelay), "logic (inverter, driver) delay"),
     k!("t_sw", "s", Value(0.0), 0.0, 1.0, false, Some(P::SwitchDelay), "switch turn-over time"),
@@ -198,7 +406,16 @@ pub const KEYS: &[KeyDef] = &[
     // Device sizes of oscillators built from a process (osc_from).
     k!("mirror_w", "m", Value(4e-6), 0.0, 1e-3, true, None, "width of the unit mirror device (process models)"),
     k!("mirror_l", "m", Value(2e-6), 0.0, 1e-3, true, None, "length of the mirror devices (process models)"),
-    k!("sw_w", "m", Value(1e-6), 0.0, 1e-3, true, None, "width of the NMOS switches; PMOS switches are twice as wide (process models)"),
+    k!(
+        "sw_w",
+        "m",
+        Value(1e-6),
+        0.0,
+        1e-3,
+        true,
+        None,
+        "width of the NMOS switches; PMOS switches are twice as wide (process models)"
+    ),
     k!("sw_l", "m", Value(0.18e-6), 0.0, 1e-3, true, None, "length of the switches (process models)"),
     k!("inv_wn", "m", Value(1e-6), 0.0, 1e-3, true, None, "NMOS width of the inverters (process models)"),
     k!("inv_wp", "m", Value(2e-6), 0.0, 1e-3, true, None, "PMOS width of the inverters (process models)"),
@@ -206,7 +423,16 @@ pub const KEYS: &[KeyDef] = &[
     k!("cmp_w", "m", Value(4e-6), 0.0, 1e-3, true, None, "width of each comparator input device (process models)"),
     k!("cmp_l", "m", Value(1e-6), 0.0, 1e-3, true, None, "length of the comparator input devices (process models)"),
     k!("cmp_itail", "A", Value(2e-6), 0.0, 1.0, true, None, "comparator tail current (process models)"),
-    k!("cmp_cload", "F", Value(20e-15), 0.0, 1e-9, true, None, "load capacitance of the comparator's first stage (process models)"),
+    k!(
+        "cmp_cload",
+        "F",
+        Value(20e-15),
+        0.0,
+        1e-9,
+        true,
+        None,
+        "load capacitance of the comparator's first stage (process models)"
+    ),
 ];
 
 pub fn def(name: &str) -> Option<&'static KeyDef> {
@@ -233,7 +459,11 @@ impl Params {
     pub fn new_in(kind: Kind, mode: Mode, pairs: &[(String, f64)]) -> Result<Params, String> {
         let keys = kind.keys_for(mode);
         if keys.is_empty() {
-            return Err(format!("osc_from: a \"{}\" oscillator cannot be built from process models yet; use osc(\"{}\", #{{...}}) with explicit numbers", kind.name(), kind.name()));
+            return Err(format!(
+                "osc_from: a \"{}\" oscillator cannot be built from process models yet; use osc(\"{}\", #{{...}}) with explicit numbers",
+                kind.name(),
+                kind.name()
+            ));
         }
         let mut given = BTreeMap::new();
         for (k, v) in pairs {
@@ -296,7 +526,9 @@ impl Params {
                     return Ok(());
                 }
                 if explicit && derived {
-                    return Err("give the thresholds either as 'v_lo'/'v_hi' or through 'vtn'/'vtp', not both".to_string());
+                    return Err(
+                        "give the thresholds either as 'v_lo'/'v_hi' or through 'vtn'/'vtp', not both".to_string()
+                    );
                 }
                 if derived {
                     need("vtn")?;
@@ -308,7 +540,9 @@ impl Params {
                 if self.has("r") {
                     for k in ["r_out", "i_mismatch", "c_swn", "c_swp", "tc_i"] {
                         if self.has(k) {
-                            return Err(format!("key '{k}' applies to current charging ('i'), not to RC charging ('r')"));
+                            return Err(format!(
+                                "key '{k}' applies to current charging ('i'), not to RC charging ('r')"
+                            ));
                         }
                     }
                 } else if self.has("tc_r") {
@@ -351,7 +585,8 @@ impl Params {
             .filter_map(|(k, v)| {
                 let d = def(k)?;
                 let unit = if d.unit == "1" { "" } else { d.unit };
-                (d.group.is_some_and(|g| groups.contains(&g))).then(|| format!("{k} = {}", eng_exact(*v, unit).trim_end()))
+                (d.group.is_some_and(|g| groups.contains(&g)))
+                    .then(|| format!("{k} = {}", eng_exact(*v, unit).trim_end()))
             })
             .collect()
     }
@@ -359,7 +594,11 @@ impl Params {
     /// Whether any key of parasitic `p` was given a value other than its ideal default.
     pub fn sets(&self, p: Parasitic) -> bool {
         self.given.iter().any(|(k, v)| {
-            def(k).is_some_and(|d| d.group == Some(p) && d.default != Dflt::Value(*v) && !matches!(*k, "sw_phi" | "sw_m" | "v_ds_ref" | "cmp_vsw"))
+            def(k).is_some_and(|d| {
+                d.group == Some(p)
+                    && d.default != Dflt::Value(*v)
+                    && !matches!(*k, "sw_phi" | "sw_m" | "v_ds_ref" | "cmp_vsw")
+            })
         })
     }
 }
@@ -372,7 +611,13 @@ fn check_range(d: &KeyDef, v: f64) -> Result<(), String> {
         // Bounds and value each with their unit (and prefix): `(0, 1 mF]`, `= -500 mV`.
         let show = |x: f64| if x == 0.0 { "0".to_string() } else { eng_exact(x, unit).trim_end().to_string() };
         let value = eng_exact(v, unit).trim_end().to_string();
-        return Err(format!("key '{}' ({}) = {value} is out of range {lb}{}, {}]", d.name, d.what, show(d.min), show(d.max)));
+        return Err(format!(
+            "key '{}' ({}) = {value} is out of range {lb}{}, {}]",
+            d.name,
+            d.what,
+            show(d.min),
+            show(d.max)
+        ));
     }
     Ok(())
 }

@@ -73,7 +73,13 @@ impl Parts {
     /// Parts made from the explicit numbers of `p`.
     pub fn explicit(p: &Params) -> Result<Parts, String> {
         let i = p.get("i");
-        let mirror = |high_side: bool, scale: f64| MirrorOut { i: i * scale, tc: p.get("tc_i"), r_out: p.get("r_out"), v_ds_ref: p.get("v_ds_ref"), high_side };
+        let mirror = |high_side: bool, scale: f64| MirrorOut {
+            i: i * scale,
+            tc: p.get("tc_i"),
+            r_out: p.get("r_out"),
+            v_ds_ref: p.get("v_ds_ref"),
+            high_side,
+        };
         let (hi, lo) = match p.kind {
             Kind::Window | Kind::Schmitt => ("vos_hi", "vos_lo"),
             _ => ("vos", "vos"),
@@ -81,15 +87,31 @@ impl Parts {
         // The Schmitt trigger is one element: its input capacitance is counted once (on cmp_hi).
         let c_in_lo = if p.kind == Kind::Window { p.get("c_in") } else { 0.0 };
         Ok(Parts {
-            cap: Arc::new(Capacitor::new(p.get("c"), p.get("c_vc1"), p.get("c_vc2"), p.get("tc_c"), 0.0, super::env::T_REF_C)?),
-            node: Arc::new(SwitchJunctions { c_n: p.get("c_swn"), c_p: p.get("c_swp"), phi: p.get("sw_phi"), m: p.get("sw_m") }),
+            cap: Arc::new(Capacitor::new(
+                p.get("c"),
+                p.get("c_vc1"),
+                p.get("c_vc2"),
+                p.get("tc_c"),
+                0.0,
+                super::env::T_REF_C,
+            )?),
+            node: Arc::new(SwitchJunctions {
+                c_n: p.get("c_swn"),
+                c_p: p.get("c_swp"),
+                phi: p.get("sw_phi"),
+                m: p.get("sw_m"),
+            }),
             charge: Arc::new(mirror(true, 1.0)),
             discharge: Arc::new(mirror(false, 1.0 + p.get("i_mismatch"))),
             cmp_hi: explicit_comparator(p, hi, p.get("c_in"))?,
             cmp_lo: explicit_comparator(p, lo, c_in_lo)?,
             r_reset: p.get("r_reset"),
             levels: None,
-            res: if p.has("r") { Some(Resistor::new(p.get("r"), p.get("tc_r"), 0.0, p.get("r_vc"), super::env::T_REF_C)?) } else { None },
+            res: if p.has("r") {
+                Some(Resistor::new(p.get("r"), p.get("tc_r"), 0.0, p.get("r_vc"), super::env::T_REF_C)?)
+            } else {
+                None
+            },
             v_th: None,
         })
     }

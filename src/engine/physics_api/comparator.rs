@@ -1,11 +1,13 @@
 //! Comparators: behavioural, from an input pair, and the pair-area trade-off.
-use rhai::{Dynamic, Engine, Map};
+use super::{Opts, R, each, err, finite, lift, num};
 use crate::physics::comparator::{Comparator, ComparatorSpec};
-use super::{err, lift, num, finite, each, Opts, R};
+use rhai::{Dynamic, Engine, Map};
 
 pub(super) fn register(engine: &mut Engine) {
     engine.register_type_with_name::<Comparator>("Comparator");
-    let text = |c: &mut Comparator| format!("Comparator(a0 {:.4}, gbw {:.4e} Hz, slew {:.4e} V/s)", c.spec.a0, c.spec.gbw, c.spec.slew);
+    let text = |c: &mut Comparator| {
+        format!("Comparator(a0 {:.4}, gbw {:.4e} Hz, slew {:.4e} V/s)", c.spec.a0, c.spec.gbw, c.spec.slew)
+    };
     engine.register_fn("to_string", text);
     engine.register_fn("to_debug", text);
     engine.register_fn("comparator", |m: Map| -> R<Comparator> {

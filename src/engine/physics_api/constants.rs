@@ -1,15 +1,16 @@
 //! Physical constants and device laws: thermal voltage, junction capacitance, Pelgrom.
-use rhai::{Dynamic, Engine};
+use super::{R, each, err, lift, num, temp};
 use crate::physics::constants::thermal_voltage;
 use crate::physics::junction::{self, junction_cap};
 use crate::physics::mismatch::pelgrom;
-use super::{err, lift, num, temp, each, R};
+use rhai::{Dynamic, Engine};
 
 pub(super) fn register(engine: &mut Engine) {
     engine.register_fn("thermal_voltage", |t: Dynamic| -> R<f64> { Ok(thermal_voltage(temp(&t, "thermal_voltage")?)) });
     engine.register_fn("junction_cap", |cj0: Dynamic, vr: Dynamic, phi: Dynamic, m: Dynamic| -> R<Dynamic> {
         let f = "junction_cap";
-        let (cj0, phi, m) = (num(&cj0, "junction_cap: cj0")?, num(&phi, "junction_cap: phi")?, num(&m, "junction_cap: m")?);
+        let (cj0, phi, m) =
+            (num(&cj0, "junction_cap: cj0")?, num(&phi, "junction_cap: phi")?, num(&m, "junction_cap: m")?);
         lift(junction::check(cj0, phi, m).map_err(|e| format!("{f}: {e}")))?;
         each(&vr, "v_reverse", f, |v| Ok(junction_cap(cj0, v, phi, m)))
     });

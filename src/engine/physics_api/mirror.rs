@@ -1,13 +1,14 @@
 //! Current mirrors and the charge/discharge pair mismatch.
-use rhai::{Dynamic, Engine, Map};
+use super::{Opts, R, each, err, finite, lift, num};
 use crate::num::Series;
-use crate::physics::mirror::{pair_mismatch, Mirror};
+use crate::physics::mirror::{Mirror, pair_mismatch};
 use crate::physics::mosfet::MosType;
-use super::{err, lift, num, finite, each, Opts, R};
+use rhai::{Dynamic, Engine, Map};
 
 pub(super) fn register(engine: &mut Engine) {
     engine.register_type_with_name::<Mirror>("Mirror");
-    let text = |m: &mut Mirror| format!("Mirror({:?}, {}, i_ref {} A, ratio {})", m.kind, m.polarity.name(), m.i_ref, m.ratio);
+    let text =
+        |m: &mut Mirror| format!("Mirror({:?}, {}, i_ref {} A, ratio {})", m.kind, m.polarity.name(), m.i_ref, m.ratio);
     engine.register_fn("to_string", text);
     engine.register_fn("to_debug", text);
     engine.register_fn("mirror", |m: Map| -> R<Mirror> {
@@ -24,13 +25,19 @@ pub(super) fn register(engine: &mut Engine) {
             (MosType::P, Some(v)) => lift(m.sourcing(num(&v, "mirror: key 'vdd'")?)),
         }
     });
-    engine.register_fn("i_out", |m: &mut Mirror, v: Dynamic| -> R<Dynamic> { each(&v, "v_out", "mi.i_out", |x| finite(m.i_out(x), "mi.i_out")) });
-    engine.register_fn("rout", |m: &mut Mirror, v: Dynamic| -> R<Dynamic> { each(&v, "v_out", "mi.rout", |x| finite(m.rout(x), "mi.rout")) });
+    engine.register_fn("i_out", |m: &mut Mirror, v: Dynamic| -> R<Dynamic> {
+        each(&v, "v_out", "mi.i_out", |x| finite(m.i_out(x), "mi.i_out"))
+    });
+    engine.register_fn("rout", |m: &mut Mirror, v: Dynamic| -> R<Dynamic> {
+        each(&v, "v_out", "mi.rout", |x| finite(m.rout(x), "mi.rout"))
+    });
     engine.register_fn("systematic_error", |m: &mut Mirror, v: Dynamic| -> R<Dynamic> {
         each(&v, "v_out", "mi.systematic_error", |x| finite(m.systematic_error(x), "mi.systematic_error"))
     });
     engine.register_fn("compliance", |m: &mut Mirror| -> R<f64> { lift(m.compliance(m.headroom(), 0.01)) });
-    engine.register_fn("compliance", |m: &mut Mirror, tol: Dynamic| -> R<f64> { lift(m.compliance(m.headroom(), num(&tol, "mi.compliance: tol")?)) });
+    engine.register_fn("compliance", |m: &mut Mirror, tol: Dynamic| -> R<f64> {
+        lift(m.compliance(m.headroom(), num(&tol, "mi.compliance: tol")?))
+    });
     engine.register_fn("compliance_rout", |m: &mut Mirror, frac: Dynamic| -> R<f64> {
         lift(m.compliance_rout(m.headroom(), num(&frac, "mi.compliance_rout: frac")?))
     });

@@ -1,7 +1,7 @@
 //! Transistors: currents, small-signal quantities, capacitances, mismatch.
-use rhai::{Dynamic, Engine, Map};
+use super::{R, each, finite, lift, num, temp};
 use crate::physics::mosfet::Mos;
-use super::{lift, num, temp, finite, each, R};
+use rhai::{Dynamic, Engine, Map};
 
 pub(super) fn register(engine: &mut Engine) {
     engine.register_type_with_name::<Mos>("Mos");
@@ -57,7 +57,9 @@ pub(super) fn register(engine: &mut Engine) {
         }
         Ok(out)
     });
-    engine.register_fn("cj", |m: &mut Mos, vr: Dynamic| -> R<Dynamic> { each(&vr, "v_reverse", "m.cj", |v| Ok(m.cj_diffusion(v))) });
+    engine.register_fn("cj", |m: &mut Mos, vr: Dynamic| -> R<Dynamic> {
+        each(&vr, "v_reverse", "m.cj", |v| Ok(m.cj_diffusion(v)))
+    });
     engine.register_fn("with_mismatch", |m: &mut Mos, dvt: Dynamic, db: Dynamic| -> R<Mos> {
         lift(m.with_mismatch(num(&dvt, "m.with_mismatch: dvt")?, num(&db, "m.with_mismatch: dbeta")?))
     });

@@ -1,8 +1,8 @@
 //! Resistors and capacitors.
-use rhai::{Dynamic, Engine, Map};
+use super::{Opts, R, each, finite, lift, temp};
 use crate::physics::capacitor::{Capacitor, MosCap};
 use crate::physics::resistor::Resistor;
-use super::{lift, temp, finite, each, Opts, R};
+use rhai::{Dynamic, Engine, Map};
 
 pub(super) fn register(engine: &mut Engine) {
     engine.register_type_with_name::<Resistor>("Resistor");
@@ -19,14 +19,16 @@ pub(super) fn register(engine: &mut Engine) {
     engine.register_fn("to_debug", mt);
     engine.register_fn("resistor", |m: Map| -> R<Resistor> {
         let mut o = Opts::new(&m, "resistor");
-        let (r, tc1, tc2, vc, tnom) = (o.req("r")?, o.or("tc1", 0.0)?, o.or("tc2", 0.0)?, o.or("vc", 0.0)?, o.or("tnom", 27.0)?);
+        let (r, tc1, tc2, vc, tnom) =
+            (o.req("r")?, o.or("tc1", 0.0)?, o.or("tc2", 0.0)?, o.or("vc", 0.0)?, o.or("tnom", 27.0)?);
         o.finish()?;
         lift(Resistor::new(r, tc1, tc2, vc, tnom))
     });
     engine.register_fn("capacitor", |m: Map| -> R<Capacitor> {
         let mut o = Opts::new(&m, "capacitor");
         let c = o.req("c")?;
-        let (vc1, vc2, tc1, tc2, tnom) = (o.or("vc1", 0.0)?, o.or("vc2", 0.0)?, o.or("tc1", 0.0)?, o.or("tc2", 0.0)?, o.or("tnom", 27.0)?);
+        let (vc1, vc2, tc1, tc2, tnom) =
+            (o.or("vc1", 0.0)?, o.or("vc2", 0.0)?, o.or("tc1", 0.0)?, o.or("tc2", 0.0)?, o.or("tnom", 27.0)?);
         o.finish()?;
         lift(Capacitor::new(c, vc1, vc2, tc1, tc2, tnom))
     });

@@ -1,15 +1,15 @@
 //! Processes: built-in and from TOML files, corners, operating point.
-use rhai::{Array, Dynamic, Engine, Map};
 use super::super::session::Shared;
+use super::{Opts, R, err, lift, num, pair_design, series_of};
 use crate::num::Series;
 use crate::physics::capacitor::{Capacitor, MosCap};
-use crate::physics::comparator::{pair_tradeoff, Comparator};
+use crate::physics::comparator::{Comparator, pair_tradeoff};
 use crate::physics::mirror::{Mirror, MirrorKind};
 use crate::physics::mosfet::{Mos, MosType};
 use crate::physics::process::Process;
 use crate::physics::resistor::Resistor;
 use crate::physics::switch::{Switch, SwitchKind};
-use super::{err, lift, num, Opts, pair_design, series_of, R};
+use rhai::{Array, Dynamic, Engine, Map};
 
 pub(super) fn register(engine: &mut Engine, session: &Shared) {
     engine.register_type_with_name::<Process>("Process");
@@ -26,8 +26,12 @@ pub(super) fn register(engine: &mut Engine, session: &Shared) {
     engine.register_fn("temp", |p: &mut Process| p.temp);
     engine.register_fn("tnom", |p: &mut Process| p.tnom);
     engine.register_fn("corner_name", |p: &mut Process| p.corner.clone());
-    engine.register_fn("corners", |p: &mut Process| -> Array { p.corner_names().into_iter().map(Dynamic::from).collect() });
-    engine.register_fn("corner", |p: &mut Process, name: &str| lift(p.at_corner(name).map_err(|e| format!("corner: {e}"))));
+    engine.register_fn("corners", |p: &mut Process| -> Array {
+        p.corner_names().into_iter().map(Dynamic::from).collect()
+    });
+    engine.register_fn("corner", |p: &mut Process, name: &str| {
+        lift(p.at_corner(name).map_err(|e| format!("corner: {e}")))
+    });
     engine.register_fn("with_vdd", |p: &mut Process, v: Dynamic| -> R<Process> {
         lift(p.with_vdd(num(&v, "with_vdd: vdd")?).map_err(|e| format!("with_vdd: {e}")))
     });
@@ -48,13 +52,16 @@ pub(super) fn register(engine: &mut Engine, session: &Shared) {
         let (w, l) = (num(&w, "mos_switch: w")?, num(&l, "mos_switch: l")?);
         lift(Switch::from_process(p, k, w, w, l).map_err(|e| format!("mos_switch: {e}")))
     });
-    engine.register_fn("mos_switch", |p: &mut Process, kind: &str, wn: Dynamic, wp: Dynamic, l: Dynamic| -> R<Switch> {
-        if kind != "tg" {
-            return err(format!("mos_switch: two widths are for kind \"tg\", got \"{kind}\""));
-        }
-        let (wn, wp, l) = (num(&wn, "mos_switch: w_n")?, num(&wp, "mos_switch: w_p")?, num(&l, "mos_switch: l")?);
-        lift(Switch::from_process(p, SwitchKind::Tg, wn, wp, l).map_err(|e| format!("mos_switch: {e}")))
-    });
+    engine.register_fn(
+        "mos_switch",
+        |p: &mut Process, kind: &str, wn: Dynamic, wp: Dynamic, l: Dynamic| -> R<Switch> {
+            if kind != "tg" {
+                return err(format!("mos_switch: two widths are for kind \"tg\", got \"{kind}\""));
+            }
+            let (wn, wp, l) = (num(&wn, "mos_switch: w_n")?, num(&wp, "mos_switch: w_p")?, num(&l, "mos_switch: l")?);
+            lift(Switch::from_process(p, SwitchKind::Tg, wn, wp, l).map_err(|e| format!("mos_switch: {e}")))
+        },
+    );
     engine.register_fn("mirror", |p: &mut Process, m: Map| -> R<Mirror> {
         let mut o = Opts::new(&m, "mirror");
         let kind = lift(MirrorKind::parse(&o.text("kind", "simple")?).map_err(|e| format!("mirror: key 'kind': {e}")))?;

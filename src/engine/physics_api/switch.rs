@@ -1,20 +1,25 @@
 //! MOS switches and transmission gates.
-use rhai::{Dynamic, Engine, Map};
+use super::{Opts, R, each, err, finite, lift, num};
 use crate::physics::switch::Switch;
-use super::{err, lift, num, finite, each, Opts, R};
+use rhai::{Dynamic, Engine, Map};
 
 pub(super) fn register(engine: &mut Engine) {
     engine.register_type_with_name::<Switch>("Switch");
-    let text = |s: &mut Switch| format!("Switch({:?}, {}, vdd {} V, temp {} °C)", s.kind, if s.on { "on" } else { "off" }, s.vdd, s.temp);
+    let text = |s: &mut Switch| {
+        format!("Switch({:?}, {}, vdd {} V, temp {} °C)", s.kind, if s.on { "on" } else { "off" }, s.vdd, s.temp)
+    };
     engine.register_fn("to_string", text);
     engine.register_fn("to_debug", text);
     engine.register_fn("mos_switch", |m: Map| -> R<Switch> {
         let mut o = Opts::new(&m, "mos_switch");
-        let (ron, c, q, cov, vdd) = (o.req("ron")?, o.or("c_node", 0.0)?, o.or("q_ch", 0.0)?, o.or("c_ov", 0.0)?, o.or("vdd", 1.8)?);
+        let (ron, c, q, cov, vdd) =
+            (o.req("ron")?, o.or("c_node", 0.0)?, o.or("q_ch", 0.0)?, o.or("c_ov", 0.0)?, o.or("vdd", 1.8)?);
         o.finish()?;
         lift(Switch::explicit(ron, c, q, cov, vdd))
     });
-    engine.register_fn("ron", |s: &mut Switch, v: Dynamic| -> R<Dynamic> { each(&v, "v_sig", "s.ron", |x| finite(s.ron(x), "s.ron")) });
+    engine.register_fn("ron", |s: &mut Switch, v: Dynamic| -> R<Dynamic> {
+        each(&v, "v_sig", "s.ron", |x| finite(s.ron(x), "s.ron"))
+    });
     engine.register_fn("node_cap", |s: &mut Switch, v: Dynamic| -> R<Dynamic> {
         each(&v, "v_node", "s.node_cap", |x| finite(s.node_cap(x), "s.node_cap"))
     });
@@ -30,7 +35,9 @@ pub(super) fn register(engine: &mut Engine) {
         let c = c_node(&c, "s.pedestal")?;
         each(&v, "v_sig", "s.pedestal", |x| Ok(s.pedestal(x, c)))
     });
-    engine.register_fn("feedthrough", move |s: &mut Switch, c: Dynamic| -> R<f64> { Ok(s.feedthrough(c_node(&c, "s.feedthrough")?)) });
+    engine.register_fn("feedthrough", move |s: &mut Switch, c: Dynamic| -> R<f64> {
+        Ok(s.feedthrough(c_node(&c, "s.feedthrough")?))
+    });
     engine.register_fn("on", |s: &mut Switch| s.with_on(true));
     engine.register_fn("off", |s: &mut Switch| s.with_on(false));
     engine.register_fn("at", |s: &mut Switch, vdd: Dynamic, t: Dynamic| -> R<Switch> {

@@ -92,7 +92,8 @@ impl Plot {
         if !self.names.is_empty() && self.names.len() != self.ys.len() {
             return Err(format!("plot: 'names' has {} entries for {} series", self.names.len(), self.ys.len()));
         }
-        let series = |k: usize| self.names.get(k).map(|n| format!("series '{n}'")).unwrap_or(format!("series {}", k + 1));
+        let series =
+            |k: usize| self.names.get(k).map(|n| format!("series '{n}'")).unwrap_or(format!("series {}", k + 1));
         match self.kind {
             Kind::Line | Kind::Scatter | Kind::Step => {
                 if self.x.is_empty() {
@@ -100,7 +101,12 @@ impl Plot {
                 }
                 for (k, y) in self.ys.iter().enumerate() {
                     if y.len() != self.x.len() {
-                        return Err(format!("plot: 'x' has {} values but {} of 'y' has {}", self.x.len(), series(k), y.len()));
+                        return Err(format!(
+                            "plot: 'x' has {} values but {} of 'y' has {}",
+                            self.x.len(),
+                            series(k),
+                            y.len()
+                        ));
                     }
                 }
                 if self.log_x
@@ -127,7 +133,11 @@ impl Plot {
                     return Err("plot: a bar chart takes one series in 'y'".into());
                 }
                 if self.labels.len() != self.ys[0].len() {
-                    return Err(format!("plot: 'labels' has {} entries for {} bars in 'y'", self.labels.len(), self.ys[0].len()));
+                    return Err(format!(
+                        "plot: 'labels' has {} entries for {} bars in 'y'",
+                        self.labels.len(),
+                        self.ys[0].len()
+                    ));
                 }
                 if self.log_x || self.log_y {
                     return Err("plot: a bar chart has a linear value axis; remove log_x/log_y".into());

@@ -1,13 +1,13 @@
 //! Drawing a [`Plot`] as SVG with plotters: white canvas, light grid, SI-prefixed ticks,
 //! a restrained palette, legend in a corner, label areas sized to their text.
-use plotters::coord::ranged1d::{DefaultFormatting, KeyPointHint, Ranged};
 use plotters::coord::Shift;
+use plotters::coord::ranged1d::{DefaultFormatting, KeyPointHint, Ranged};
 use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
 
 use super::font::{self, FAMILY};
 use super::ticks::{self, Axis};
-use super::{auto_bins, Kind, Plot};
+use super::{Kind, Plot, auto_bins};
 
 /// Canvas size in pixels.
 pub const WIDTH: u32 = 800;
@@ -99,7 +99,9 @@ fn desc(label: &str, unit: &str) -> String {
 }
 
 fn text_w(root: &Area, t: &str, size: f64) -> u32 {
-    root.estimate_text_size(t, &TextStyle::from((FAMILY, size).into_font())).map(|s| s.0).unwrap_or((t.len() as f64 * size * 0.6) as u32)
+    root.estimate_text_size(t, &TextStyle::from((FAMILY, size).into_font()))
+        .map(|s| s.0)
+        .unwrap_or((t.len() as f64 * size * 0.6) as u32)
 }
 
 /// Finite (min, max) of values, or None.
@@ -151,12 +153,7 @@ fn chart<'a, 'b>(
         b.caption(t, (FAMILY, size).into_font().style(FontStyle::Bold).color(&INK));
     }
     b.x_label_area_size(x_area).y_label_area_size(y_area);
-    let mut c = b
-        .build_cartesian_2d(
-            Ticked(xa.clone()),
-            Ticked(ya.clone()),
-        )
-        .map_err(pe)?;
+    let mut c = b.build_cartesian_2d(Ticked(xa.clone()), Ticked(ya.clone())).map_err(pe)?;
     let mut m = c.configure_mesh();
     m.x_labels(1000)
         .y_labels(1000)
@@ -272,13 +269,12 @@ fn xy(root: &Area, p: &Plot) -> Result<(), String> {
     // points between samples so that a line through a corner counts.
     let mut occ = Vec::new();
     for y in &p.ys {
-        let pts: Vec<(f64, f64)> = p
-            .x
-            .iter()
-            .zip(y)
-            .filter(|(a, b)| a.is_finite() && b.is_finite())
-            .map(|(a, b)| (unit(&xa, xa.to_coord(*a)), unit(&ya, ya.to_coord(*b))))
-            .collect();
+        let pts: Vec<(f64, f64)> =
+            p.x.iter()
+                .zip(y)
+                .filter(|(a, b)| a.is_finite() && b.is_finite())
+                .map(|(a, b)| (unit(&xa, xa.to_coord(*a)), unit(&ya, ya.to_coord(*b))))
+                .collect();
         for w in pts.windows(2) {
             for k in 0..8 {
                 let t = k as f64 / 8.0;
@@ -309,18 +305,17 @@ fn histogram(root: &Area, p: &Plot) -> Result<(), String> {
     let nb = p.bins.unwrap_or_else(|| auto_bins(&all)).max(1);
     let (lo, hi) = if hi > lo { (lo, hi) } else { (lo - 0.5 * lo.abs().max(1e-30), hi + 0.5 * hi.abs().max(1e-30)) };
     let w = (hi - lo) / nb as f64;
-    let counts: Vec<Vec<usize>> = p
-        .ys
-        .iter()
-        .map(|s| {
-            let mut c = vec![0usize; nb];
-            for &v in s.iter().filter(|v| v.is_finite()) {
-                let k = (((v - lo) / w).floor() as usize).min(nb - 1);
-                c[k] += 1;
-            }
-            c
-        })
-        .collect();
+    let counts: Vec<Vec<usize>> =
+        p.ys.iter()
+            .map(|s| {
+                let mut c = vec![0usize; nb];
+                for &v in s.iter().filter(|v| v.is_finite()) {
+                    let k = (((v - lo) / w).floor() as usize).min(nb - 1);
+                    c[k] += 1;
+                }
+                c
+            })
+            .collect();
     let top = counts.iter().flatten().copied().max().unwrap_or(1).max(1) as f64;
     let xa = ticks::linear(lo, hi, 7, false, true);
     let mut ya = ticks::linear(0.0, top * 1.08, 6, true, false);
@@ -347,12 +342,15 @@ fn histogram(root: &Area, p: &Plot) -> Result<(), String> {
             (s.mean(), s.stdev())
         });
         let name = match (p.names.get(k), stats) {
-            (Some(n), Some((m, sd))) => Some(format!("{n}: μ {}, σ {}", fmt_stat(m, &p.x_unit), fmt_stat(sd, &p.x_unit))),
+            (Some(n), Some((m, sd))) => {
+                Some(format!("{n}: μ {}, σ {}", fmt_stat(m, &p.x_unit), fmt_stat(sd, &p.x_unit)))
+            }
             (None, Some((m, sd))) => Some(format!("μ {}, σ {}", fmt_stat(m, &p.x_unit), fmt_stat(sd, &p.x_unit))),
             (n, None) => n.cloned(),
         };
         if let Some(name) = name {
-            ann.label(name).legend(move |(x, y)| Rectangle::new([(x, y - 6), (x + 18, y + 6)], color.mix(alpha).filled()));
+            ann.label(name)
+                .legend(move |(x, y)| Rectangle::new([(x, y - 6), (x + 18, y + 6)], color.mix(alpha).filled()));
         }
         let outlines = cs.iter().enumerate().filter(|(_, n)| **n > 0).map(|(i, &n)| {
             let x0 = lo + w * i as f64;
@@ -408,7 +406,8 @@ fn bars(root: &Area, p: &Plot) -> Result<(), String> {
     let hi = if hi > 0.0 { hi + 0.18 * span } else { hi };
     let mut xa = ticks::linear(lo, hi, 6, true, false);
     xa.minor.clear();
-    let ya = Axis { lo: -0.6, hi: n as f64 - 0.4, ticks: (0..n).map(|k| k as f64).collect(), minor: vec![], log: false };
+    let ya =
+        Axis { lo: -0.6, hi: n as f64 - 0.4, ticks: (0..n).map(|k| k as f64).collect(), minor: vec![], log: false };
     let shown: Vec<String> = labels.iter().map(|l| fit(root, l, 300)).collect();
     let xf = |c: &f64| xa.label(*c, &p.y_unit);
     let yf = |c: &f64| {
@@ -417,9 +416,12 @@ fn bars(root: &Area, p: &Plot) -> Result<(), String> {
     };
     let mut c = chart(root, p, &xa, &ya, &xf, &yf, &desc(&p.y_label, &p.y_unit), &p.x_label)?;
     let row = |k: usize| (n - 1 - k) as f64;
-    c.draw_series(spans.iter().enumerate().map(|(k, &(a, b, col))| {
-        Rectangle::new([(a, row(k) - 0.32), (b, row(k) + 0.32)], col.filled())
-    }))
+    c.draw_series(
+        spans
+            .iter()
+            .enumerate()
+            .map(|(k, &(a, b, col))| Rectangle::new([(a, row(k) - 0.32), (b, row(k) + 0.32)], col.filled())),
+    )
     .map_err(pe)?;
     if p.waterfall {
         // Thin connectors from each bar's end to the next bar's start.

@@ -70,12 +70,26 @@ pub fn log(a: f64, b: f64) -> Axis {
     let snap_down = |l: f64| {
         let d = l.floor();
         let m = 10f64.powf(l - d);
-        d + if m >= 5.0 - 1e-9 { 5f64.log10() } else if m >= 2.0 - 1e-9 { 2f64.log10() } else { 0.0 }
+        d + if m >= 5.0 - 1e-9 {
+            5f64.log10()
+        } else if m >= 2.0 - 1e-9 {
+            2f64.log10()
+        } else {
+            0.0
+        }
     };
     let snap_up = |l: f64| {
         let d = l.floor();
         let m = 10f64.powf(l - d);
-        if m <= 1.0 + 1e-9 { d } else if m <= 2.0 + 1e-9 { d + 2f64.log10() } else if m <= 5.0 + 1e-9 { d + 5f64.log10() } else { d + 1.0 }
+        if m <= 1.0 + 1e-9 {
+            d
+        } else if m <= 2.0 + 1e-9 {
+            d + 2f64.log10()
+        } else if m <= 5.0 + 1e-9 {
+            d + 5f64.log10()
+        } else {
+            d + 1.0
+        }
     };
     let mut lo = snap_down(la);
     let mut hi = snap_up(lb);

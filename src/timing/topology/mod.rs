@@ -46,7 +46,8 @@ fn ramp_phase(
 ) -> Result<PhaseTiming, String> {
     let rising = i(v0) > 0.0;
     let past = if rising { v0 >= vth } else { v0 <= vth };
-    let (ramp, v_cross) = if past { (0.0, v0) } else { (ramp_time(c, i, v0, vth).map_err(|e| format!("{name}: {e}"))?, vth) };
+    let (ramp, v_cross) =
+        if past { (0.0, v0) } else { (ramp_time(c, i, v0, vth).map_err(|e| format!("{name}: {e}"))?, vth) };
     let slope = i(v_cross) / c(v_cross);
     let d = delay(slope);
     let v_end = advance(c, i, v_cross, d)?;

@@ -6,7 +6,7 @@ use super::super::osc::{Cycle, Osc, View};
 use super::super::parasitic::Parasitic;
 use super::super::ramp::{advance, steady};
 use super::reset::{ideal_args, v_reset};
-use super::{check_rails, ramp_phase, NodeFn};
+use super::{NodeFn, check_rails, ramp_phase};
 
 /// Ideal period T = 2·C·(V_ref − V_reset)/I (common practice: two equal charge-balance ramps,
 /// instant reset of the idle capacitor).
@@ -71,7 +71,10 @@ pub fn cycle(v: &View) -> Result<Cycle, String> {
         // A resets while B is active, and B while A is active (the same A-phase length in the
         // steady state).
         let (na, nb) = if r_reset > 0.0 {
-            (advance(&*n.ca_idle, &*n.discharge, a.v_end, b.ramp + b.delay)?, advance(&*n.cb_idle, &*n.discharge, b.v_end, a.ramp + a.delay)?)
+            (
+                advance(&*n.ca_idle, &*n.discharge, a.v_end, b.ramp + b.delay)?,
+                advance(&*n.cb_idle, &*n.discharge, b.v_end, a.ramp + a.delay)?,
+            )
         } else {
             (vl, vl)
         };

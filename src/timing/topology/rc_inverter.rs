@@ -7,7 +7,7 @@ use super::super::env::T_REF_C;
 use super::super::osc::{Cycle, Osc, View};
 use super::super::ramp::steady;
 use super::super::thresholds::inverter_vm;
-use super::{ramp_phase, NodeFn};
+use super::{NodeFn, ramp_phase};
 
 /// Ideal period with inverter threshold V_T: T = RC·[ln((V_DD + V_T)/V_T) + ln((2·V_DD − V_T)/(V_DD − V_T))],
 /// 2·ln 3·RC ≈ 2.2·RC at V_T = V_DD/2 (textbook CMOS two-inverter astable, first-order RC

@@ -5,7 +5,7 @@ use std::rc::Rc;
 use super::super::osc::{Cycle, Osc, PhaseTiming, View};
 use super::super::parasitic::Parasitic;
 use super::super::ramp::{advance, steady};
-use super::{check_rails, ramp_phase, NodeFn};
+use super::{NodeFn, check_rails, ramp_phase};
 
 /// Ideal period T = C·(V_ref − V_reset)/I (common practice: charge balance, instant reset).
 pub fn ideal_formula(c: f64, i: f64, v_reset: f64, v_ref: f64) -> f64 {
@@ -71,12 +71,23 @@ pub fn cycle(v: &View) -> Result<Cycle, String> {
     let one = |x0: f64| {
         let a = ramp_phase("charge", &*n.c, &*n.up, x0, vref, &d)?;
         let next = if r_reset > 0.0 { advance(&*n.c, &*n.during, a.v_end, t_reset)? } else { vl };
-        let b = PhaseTiming { name: "reset", v_start: a.v_end, v_threshold: vl, v_end: next, ramp: 0.0, delay: t_reset, slope: 0.0 };
+        let b = PhaseTiming {
+            name: "reset",
+            v_start: a.v_end,
+            v_threshold: vl,
+            v_end: next,
+            ramp: 0.0,
+            delay: t_reset,
+            slope: 0.0,
+        };
         Ok::<_, String>((a, b))
     };
     let ((a, b), iterations) = steady(|[x]| one(x).map(|(a, b)| ([b.v_end], (a, b))), [vl])?;
     if b.v_end >= vref {
-        return Err(format!("the reset pulse leaves the node at {:.4} V, above the threshold {vref:.4} V: the reset is too short or its switch too weak", b.v_end));
+        return Err(format!(
+            "the reset pulse leaves the node at {:.4} V, above the threshold {vref:.4} V: the reset is too short or its switch too weak",
+            b.v_end
+        ));
     }
     let period = a.ramp + a.delay + b.delay;
     let cy = Cycle {

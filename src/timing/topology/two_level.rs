@@ -6,7 +6,7 @@ use super::super::keys::Kind;
 use super::super::osc::{Cycle, Osc, View};
 use super::super::ramp::steady;
 use super::super::thresholds::schmitt_cmos;
-use super::{check_rails, ramp_phase, NodeFn};
+use super::{NodeFn, check_rails, ramp_phase};
 
 /// Ideal window / current-starved Schmitt oscillator: T = 2·C·(V_hi − V_lo)/I (common practice:
 /// charge balance C·ΔV = I·t over each of two equal ramps).
@@ -48,7 +48,11 @@ pub fn ideal(o: &Osc) -> Result<f64, String> {
     let (lo, hi) = thresholds(o);
     check_levels(o, lo, hi)?;
     let c = o.parts.cap.nominal(&o.env);
-    Ok(if rc_mode(o) { ideal_rc(resistance(o), c, o.env.vdd, lo, hi) } else { ideal_current(c, o.parts.charge.nominal(&o.env), lo, hi) })
+    Ok(if rc_mode(o) {
+        ideal_rc(resistance(o), c, o.env.vdd, lo, hi)
+    } else {
+        ideal_current(c, o.parts.charge.nominal(&o.env), lo, hi)
+    })
 }
 
 pub(crate) fn check_levels(o: &Osc, lo: f64, hi: f64) -> Result<(), String> {
@@ -56,7 +60,10 @@ pub(crate) fn check_levels(o: &Osc, lo: f64, hi: f64) -> Result<(), String> {
         return Err(format!("the low threshold {lo:.4} V is not below the high threshold {hi:.4} V"));
     }
     if rc_mode(o) && !(lo > 0.0 && hi < o.env.vdd) {
-        return Err(format!("an RC oscillator needs both thresholds strictly inside (0, vdd = {} V); they are {lo:.4} V and {hi:.4} V", o.env.vdd));
+        return Err(format!(
+            "an RC oscillator needs both thresholds strictly inside (0, vdd = {} V); they are {lo:.4} V and {hi:.4} V",
+            o.env.vdd
+        ));
     }
     Ok(())
 }

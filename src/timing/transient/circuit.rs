@@ -5,7 +5,7 @@
 use super::stepper::{Rates, State};
 use crate::timing::keys::Kind;
 use crate::timing::osc::View;
-use crate::timing::topology::{pingpong, rc_inverter, reset, two_level, NodeFn};
+use crate::timing::topology::{NodeFn, pingpong, rc_inverter, reset, two_level};
 
 pub type F<'a> = Box<dyn Fn(f64) -> f64 + 'a>;
 
@@ -80,7 +80,13 @@ fn two_level_circuit<'a>(v: &'a View<'_>) -> Result<Circuit<'a>, String> {
         Phase {
             name: "charge",
             rate: [rate(&n.up, &n.c), zero()],
-            end: End::Threshold { node: 0, level: n.hi, rising: true, cmp: Box::new(move |s| v.delay_hi(s)), chain: v.chain(n.latch) },
+            end: End::Threshold {
+                node: 0,
+                level: n.hi,
+                rising: true,
+                cmp: Box::new(move |s| v.delay_hi(s)),
+                chain: v.chain(n.latch),
+            },
             jump: None,
             no_early_trip: None,
             rest: None,
@@ -88,7 +94,13 @@ fn two_level_circuit<'a>(v: &'a View<'_>) -> Result<Circuit<'a>, String> {
         Phase {
             name: "discharge",
             rate: [rate(&n.dn, &n.c), zero()],
-            end: End::Threshold { node: 0, level: n.lo, rising: false, cmp: Box::new(move |s| v.delay_lo(s)), chain: v.chain(n.latch) },
+            end: End::Threshold {
+                node: 0,
+                level: n.lo,
+                rising: false,
+                cmp: Box::new(move |s| v.delay_lo(s)),
+                chain: v.chain(n.latch),
+            },
             jump: None,
             no_early_trip: None,
             rest: None,
@@ -142,14 +154,36 @@ fn reset_circuit<'a>(v: &'a View<'_>) -> Result<Circuit<'a>, String> {
         Phase {
             name: "charge",
             rate: [rate(&n.up, &n.c), zero()],
-            end: End::Threshold { node: 0, level: n.vref, rising: true, cmp: Box::new(move |s| v.delay_hi(s)), chain: v.chain(false) },
+            end: End::Threshold {
+                node: 0,
+                level: n.vref,
+                rising: true,
+                cmp: Box::new(move |s| v.delay_hi(s)),
+                chain: v.chain(false),
+            },
             jump: if n.r_reset > 0.0 { None } else { Some(Box::new(move |[_, y]| [vl, y])) },
-            no_early_trip: Some("the charge phase starts at or above its threshold: the reset pulse is too short or its switch too weak (or the start voltage v0 is above the threshold)"),
+            no_early_trip: Some(
+                "the charge phase starts at or above its threshold: the reset pulse is too short or its switch too weak (or the start voltage v0 is above the threshold)",
+            ),
             rest: None,
         },
-        Phase { name: "reset", rate: [during, zero()], end: End::Timed(n.t_reset), jump: None, no_early_trip: None, rest: None },
+        Phase {
+            name: "reset",
+            rate: [during, zero()],
+            end: End::Timed(n.t_reset),
+            jump: None,
+            no_early_trip: None,
+            rest: None,
+        },
     ];
-    Ok(Circuit { phases, start: [vl, 0.0], nodes: 1, node_names: ["node", ""], rails: Some((0.0, v.env.vdd)), duty_phase: 1 })
+    Ok(Circuit {
+        phases,
+        start: [vl, 0.0],
+        nodes: 1,
+        node_names: ["node", ""],
+        rails: Some((0.0, v.env.vdd)),
+        duty_phase: 1,
+    })
 }
 
 /// Ping-pong oscillator, capacitors A (node 0) and B (node 1). Start: both at the reset level,

@@ -19,7 +19,7 @@ pub mod circuit;
 pub mod stepper;
 
 use circuit::{Circuit, End, Phase};
-use stepper::{advance, crossing, hermite, Rates, State, Tol};
+use stepper::{Rates, State, Tol, advance, crossing, hermite};
 
 use super::osc::{Osc, View};
 use super::parasitic::Mask;
@@ -158,7 +158,8 @@ pub fn simulate_masked(o: &Osc, mask: Mask, cycles: usize, opts: &Options) -> Re
         let mut duty_len = 0.0;
         for ph in &c.phases {
             let t0 = run.t;
-            run.phase(ph).map_err(|e| format!("simulate(\"{kind}\"), phase '{}' at t = {:.6e} s: {e}", ph.name, run.t))?;
+            run.phase(ph)
+                .map_err(|e| format!("simulate(\"{kind}\"), phase '{}' at t = {:.6e} s: {e}", ph.name, run.t))?;
             if std::ptr::eq(ph, &c.phases[c.duty_phase]) {
                 duty_len = run.t - t0;
             }
@@ -181,7 +182,8 @@ pub fn simulate_masked(o: &Osc, mask: Mask, cycles: usize, opts: &Options) -> Re
     let mean = |x: &[f64]| x[x.len() - tail..].iter().sum::<f64>() / tail as f64;
     let period = mean(&run.periods);
     let duty = mean(&run.duties);
-    let settle_cycles = run.periods.iter().rposition(|p| (p - period).abs() > SETTLE_RTOL * period).map_or(0, |k| k + 1);
+    let settle_cycles =
+        run.periods.iter().rposition(|p| (p - period).abs() > SETTLE_RTOL * period).map_or(0, |k| k + 1);
     if !(period > 0.0 && period.is_finite()) {
         return Err(format!("simulate(\"{kind}\"): the period came out as {period} s"));
     }
@@ -318,7 +320,10 @@ impl Run {
                 let g = |y: &State| (ph.rate[node])(y[node]);
                 let v_cross = if past(self.y[node]) {
                     if let Some(msg) = ph.no_early_trip {
-                        return Err(format!("{msg} (the node is at {:.6} V, the threshold {level:.6} V)", self.y[node]));
+                        return Err(format!(
+                            "{msg} (the node is at {:.6} V, the threshold {level:.6} V)",
+                            self.y[node]
+                        ));
                     }
                     self.y[node]
                 } else {
@@ -399,7 +404,13 @@ impl Run {
         let n = self.ppp;
         let mut i = 0;
         for k in 0..n {
-            let ts = if n == 1 { t0 } else if k == n - 1 { t1 } else { t0 + (t1 - t0) * k as f64 / (n - 1) as f64 };
+            let ts = if n == 1 {
+                t0
+            } else if k == n - 1 {
+                t1
+            } else {
+                t0 + (t1 - t0) * k as f64 / (n - 1) as f64
+            };
             while i + 1 < self.buf.len() && self.buf[i + 1].0 <= ts {
                 i += 1;
             }

@@ -19,15 +19,8 @@ const A4: [f64; 3] = [44.0 / 45.0, -56.0 / 15.0, 32.0 / 9.0];
 const A5: [f64; 4] = [19372.0 / 6561.0, -25360.0 / 2187.0, 64448.0 / 6561.0, -212.0 / 729.0];
 const A6: [f64; 5] = [9017.0 / 3168.0, -355.0 / 33.0, 46732.0 / 5247.0, 49.0 / 176.0, -5103.0 / 18656.0];
 const B: [f64; 6] = [35.0 / 384.0, 0.0, 500.0 / 1113.0, 125.0 / 192.0, -2187.0 / 6784.0, 11.0 / 84.0];
-const E: [f64; 7] = [
-    71.0 / 57600.0,
-    0.0,
-    -71.0 / 16695.0,
-    71.0 / 1920.0,
-    -17253.0 / 339200.0,
-    22.0 / 525.0,
-    -1.0 / 40.0,
-];
+const E: [f64; 7] =
+    [71.0 / 57600.0, 0.0, -71.0 / 16695.0, 71.0 / 1920.0, -17253.0 / 339200.0, 22.0 / 525.0, -1.0 / 40.0];
 
 fn comb(y: &State, h: f64, ks: &[State], a: &[f64]) -> State {
     let mut out = *y;
@@ -116,7 +109,15 @@ pub fn hermite(p0: f64, m0: f64, p1: f64, m1: f64, u: f64) -> f64 {
 /// (one Dormand–Prince step of each trial length from the same start, so the crossing carries
 /// the integrator's accuracy): Newton's method with the node rate as derivative, started from
 /// the cubic Hermite interpolant of the step; Brent's method if Newton leaves the step.
-pub fn crossing(g: &dyn Rates, y: &State, k1: &State, a: &Accepted, node: usize, level: f64, t: f64) -> Result<(f64, State), String> {
+pub fn crossing(
+    g: &dyn Rates,
+    y: &State,
+    k1: &State,
+    a: &Accepted,
+    node: usize,
+    level: f64,
+    t: f64,
+) -> Result<(f64, State), String> {
     let (y1, h) = (&a.y, a.h);
     let at = |s: f64| if s == 0.0 { *y } else { step(g, y, k1, s).0 };
     let tol = 4.0 * f64::EPSILON * (t.abs() + h);

@@ -1,12 +1,14 @@
 //! The README's tour is real: its `rhai` block runs and prints what its `// →` comments say.
-mod cli_util;
+use crate::cli_util;
 use cli_util::*;
 
 #[test]
 fn readme_tour_prints_what_it_claims() {
     let readme = std::fs::read_to_string(concat!(env!("CARGO_MANIFEST_DIR"), "/README.md")).unwrap();
-    let block = readme.split("```rhai\n").nth(1).and_then(|b| b.split("```").next()).expect("a rhai block in README.md");
-    let claimed: Vec<String> = block.lines().filter_map(|l| l.split("// → ").nth(1)).map(|s| s.trim().to_string()).collect();
+    let block =
+        readme.split("```rhai\n").nth(1).and_then(|b| b.split("```").next()).expect("a rhai block in README.md");
+    let claimed: Vec<String> =
+        block.lines().filter_map(|l| l.split("// → ").nth(1)).map(|s| s.trim().to_string()).collect();
     assert!(!claimed.is_empty());
     let p = Project::new();
     p.write("tour.rhai", block);

@@ -1,5 +1,5 @@
 //! `--set NAME=VALUE` overrides of top-level constants.
-mod cli_util;
+use crate::cli_util;
 use cli_util::*;
 
 const SCRIPT: &str = "\
@@ -46,7 +46,10 @@ fn unknown_name_lists_the_declared_constants() {
     let o = run(&["VDD=1.6"]);
     assert_eq!(o.status.code(), Some(1));
     let e = stderr(&o);
-    assert!(e.contains("--set VDD: the script declares no top-level constant 'VDD'; it declares: C, I, N, KIND, FAST"), "{e}");
+    assert!(
+        e.contains("--set VDD: the script declares no top-level constant 'VDD'; it declares: C, I, N, KIND, FAST"),
+        "{e}"
+    );
 }
 
 #[test]

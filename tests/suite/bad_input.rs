@@ -20,17 +20,27 @@
 //! error"), an internal identifier in a message, NaN shown as a result, and a failed run that
 //! touches the previous report. A case that shows a bug in code owned elsewhere carries a
 //! `known-bug: REASON` line; it is skipped by `corpus` and run by the ignored `known_bugs`.
-mod cli_util;
+use crate::cli_util;
 
 use std::path::{Path, PathBuf};
 use std::process::Output;
 
-use cli_util::{stderr, stdout, Project};
+use cli_util::{Project, stderr, stdout};
 
 const CORPUS: &str = concat!(env!("CARGO_MANIFEST_DIR"), "/tests/bad_input");
 
 /// Text no user should ever see: the engine's own hook names and Rhai's internal spellings.
-const INTERNAL: &[&str] = &["__override", "__section", "$get$", "$set$", "index$", "EvalAltResult", "panicked", "internal error", "RUST_BACKTRACE"];
+const INTERNAL: &[&str] = &[
+    "__override",
+    "__section",
+    "$get$",
+    "$set$",
+    "index$",
+    "EvalAltResult",
+    "panicked",
+    "internal error",
+    "RUST_BACKTRACE",
+];
 
 /// The report a previous run left; a failed run must leave it as it was.
 const PREVIOUS: &str = "# previous report (must survive a failed run)\n";
@@ -82,7 +92,10 @@ fn clauses(s: &str) -> Vec<String> {
 
 fn unquote(s: &str, name: &str) -> Result<String, String> {
     let s = s.trim();
-    let inner = s.strip_prefix('"').and_then(|s| s.strip_suffix('"')).ok_or_else(|| format!("expected a quoted text, found {s}"))?;
+    let inner = s
+        .strip_prefix('"')
+        .and_then(|s| s.strip_suffix('"'))
+        .ok_or_else(|| format!("expected a quoted text, found {s}"))?;
     Ok(inner.replace("\\\"", "\"").replace("\\n", "\n").replace("\\\\", "\\").replace("{file}", name))
 }
 
@@ -224,7 +237,11 @@ fn run_case(case: &Case) -> Result<(), String> {
     if problems.is_empty() {
         Ok(())
     } else {
-        Err(format!("{}:\n  {}\n  --- exit {code}\n  --- stderr:\n{se}\n  --- stdout:\n{so}", case.path.display(), problems.join("\n  ")))
+        Err(format!(
+            "{}:\n  {}\n  --- exit {code}\n  --- stderr:\n{se}\n  --- stdout:\n{so}",
+            case.path.display(),
+            problems.join("\n  ")
+        ))
     }
 }
 
@@ -272,7 +289,7 @@ fn known_bugs() {
 /// one must give a value or an error, never a panic. A fixed seed keeps failures repeatable.
 #[test]
 fn random_and_mutated_scripts_never_panic() {
-    use std::panic::{catch_unwind, AssertUnwindSafe};
+    use std::panic::{AssertUnwindSafe, catch_unwind};
     // xorshift64* (Vigna 2016): small, fast and enough to pick edits.
     struct Rng(u64);
     impl Rng {
@@ -287,9 +304,44 @@ fn random_and_mutated_scripts_never_panic() {
         }
     }
     const PIECES: &[&str] = &[
-        "0", "-1", "1e308", "0.0/0.0", "1.0/0.0", "-1p", "2K", "µ", "\"", "(", ")", "[", "]", "{", "}", "#{", ",", ";", "..",
-        "span(0, 1, 0)", "series([])", "\"pie\"", "true", "x", "/*", "*/", "///", "\n", "`${", "'", "_", "1.5.5", "2p5",
-        "#{c: -1p}", "[]", "osc(\"window\", #{})", "process_file(\"../x\")", "import \"y\" as z;",
+        "0",
+        "-1",
+        "1e308",
+        "0.0/0.0",
+        "1.0/0.0",
+        "-1p",
+        "2K",
+        "µ",
+        "\"",
+        "(",
+        ")",
+        "[",
+        "]",
+        "{",
+        "}",
+        "#{",
+        ",",
+        ";",
+        "..",
+        "span(0, 1, 0)",
+        "series([])",
+        "\"pie\"",
+        "true",
+        "x",
+        "/*",
+        "*/",
+        "///",
+        "\n",
+        "`${",
+        "'",
+        "_",
+        "1.5.5",
+        "2p5",
+        "#{c: -1p}",
+        "[]",
+        "osc(\"window\", #{})",
+        "process_file(\"../x\")",
+        "import \"y\" as z;",
     ];
     let dir = concat!(env!("CARGO_MANIFEST_DIR"), "/scripts");
     let mut demos: Vec<String> = std::fs::read_dir(dir)

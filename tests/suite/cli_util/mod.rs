@@ -5,7 +5,11 @@ use std::io::Write;
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output, Stdio};
 
-use tickwork::engine::{self, sandbox::Sandbox, session::{Session, Shared}};
+use tickwork::engine::{
+    self,
+    sandbox::Sandbox,
+    session::{Session, Shared},
+};
 
 /// A scratch project folder holding one script file.
 pub struct Project {

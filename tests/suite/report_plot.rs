@@ -1,6 +1,6 @@
 //! Plots rendered through the library: every kind gives well-formed SVG with its title, axis
 //! descriptions and SI-prefixed tick labels as text; bad descriptions fail naming the key.
-use tickwork::report::plot::{svg, Kind, Plot};
+use tickwork::report::plot::{Kind, Plot, svg};
 
 fn texts(svg: &str) -> Vec<String> {
     let doc = roxmltree::Document::parse(svg).expect("well-formed SVG");

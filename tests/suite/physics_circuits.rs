@@ -1,7 +1,7 @@
 //! Switches, mirrors and comparators: textbook limits, monotonicity and continuity over the
 //! operating range, and clear errors for bad parameters.
-use tickwork::physics::comparator::{pair_tradeoff, Comparator, ComparatorSpec, PairDesign};
-use tickwork::physics::mirror::{pair_mismatch, Mirror, MirrorKind};
+use tickwork::physics::comparator::{Comparator, ComparatorSpec, PairDesign, pair_tradeoff};
+use tickwork::physics::mirror::{Mirror, MirrorKind, pair_mismatch};
 use tickwork::physics::mismatch::{current_sigma, offset_sigma};
 use tickwork::physics::mosfet::{Mos, MosType};
 use tickwork::physics::process::Process;
@@ -87,7 +87,8 @@ fn mirror_compliance_and_output_resistance() {
     let c = mirror(MirrorKind::Cascode, MosType::N);
     let w = mirror(MirrorKind::WideSwing, MosType::N);
     let tol = 1e-3;
-    let (cs, cc, cw) = (s.compliance(1.8, tol).unwrap(), c.compliance(1.8, tol).unwrap(), w.compliance(1.8, tol).unwrap());
+    let (cs, cc, cw) =
+        (s.compliance(1.8, tol).unwrap(), c.compliance(1.8, tol).unwrap(), w.compliance(1.8, tol).unwrap());
     assert!(cs < cw && cw < cc, "{cs} {cw} {cc}");
     let dev = Mos::from_process(&Process::demo180(), MosType::N, 4e-6, 2e-6).unwrap();
     let (vg, vb) = c.bias().unwrap();
@@ -124,7 +125,8 @@ fn mirror_random_error_follows_pelgrom() {
     let (vg, _) = s.bias().unwrap();
     let expect = current_sigma(dev.gm_id(vg, vg, 27.0), dev.sigma_vt(), dev.sigma_beta());
     assert!(rel(s.sigma_ratio(), expect) < 1e-12);
-    let big = Mirror::from_process(&Process::demo180(), MirrorKind::Simple, MosType::N, 1e-6, 4.0, 4e-6, 2e-6, 0.1).unwrap();
+    let big =
+        Mirror::from_process(&Process::demo180(), MirrorKind::Simple, MosType::N, 1e-6, 4.0, 4e-6, 2e-6, 0.1).unwrap();
     assert!(big.sigma_ratio() < s.sigma_ratio());
 }
 
@@ -154,7 +156,9 @@ fn explicit_mirror_and_bad_parameters() {
     assert!(rel(m.rout(1.0), 50e6) < 1e-3);
     assert_eq!(m.sigma_ratio(), 0.01);
     let p = Process::demo180();
-    let bad = |i: f64, r: f64, w: f64, margin: f64| Mirror::from_process(&p, MirrorKind::WideSwing, MosType::N, i, r, w, 2e-6, margin).unwrap_err();
+    let bad = |i: f64, r: f64, w: f64, margin: f64| {
+        Mirror::from_process(&p, MirrorKind::WideSwing, MosType::N, i, r, w, 2e-6, margin).unwrap_err()
+    };
     assert!(bad(0.0, 1.0, 4e-6, 0.1).contains("i_ref"));
     assert!(bad(1e-6, -2.0, 4e-6, 0.1).contains("ratio"));
     assert!(bad(1e-6, 1.0, 1e-9, 0.1).contains("w must be in"));
@@ -165,7 +169,17 @@ fn explicit_mirror_and_bad_parameters() {
 }
 
 fn spec() -> ComparatorSpec {
-    ComparatorSpec { a0: 1000.0, gbw: 20e6, slew: 20e6, v_swing: 0.9, t0: 1e-9, offset: 2e-3, sigma_offset: 1e-3, c_in: 10e-15, hyst: 10e-3 }
+    ComparatorSpec {
+        a0: 1000.0,
+        gbw: 20e6,
+        slew: 20e6,
+        v_swing: 0.9,
+        t0: 1e-9,
+        offset: 2e-3,
+        sigma_offset: 1e-3,
+        c_in: 10e-15,
+        hyst: 10e-3,
+    }
 }
 
 #[test]

@@ -32,15 +32,16 @@ fn eval_f64(expr: &str) -> f64 {
     e.eval::<f64>(expr).unwrap_or_else(|err| panic!("{expr}: {err}"))
 }
 
-
 #[test]
 fn objects_and_methods_from_a_script() {
     // Values agree with the Rust layer (tested against outside sources elsewhere).
     let p = tickwork::physics::process::Process::demo180();
-    let m = tickwork::physics::mosfet::Mos::from_process(&p, tickwork::physics::mosfet::MosType::N, 2e-6, 0.5e-6).unwrap();
+    let m =
+        tickwork::physics::mosfet::Mos::from_process(&p, tickwork::physics::mosfet::MosType::N, 2e-6, 0.5e-6).unwrap();
     let id = eval_f64(r#"let p = process("demo180"); let m = p.nmos(2e-6, 0.5e-6); m.id(0.6, 0.9, 27)"#);
     assert_eq!(id, m.id(0.6, 0.9, 27.0));
-    let k = eval_f64(r#"let m = process("demo180").nmos(2e-6, 0.5e-6); let s = m.id(span(0.0, 1.8, 7), 0.9, 27); s[3]"#);
+    let k =
+        eval_f64(r#"let m = process("demo180").nmos(2e-6, 0.5e-6); let s = m.id(span(0.0, 1.8, 7), 0.9, 27); s[3]"#);
     assert!((k / m.id(0.9, 0.9, 27.0) - 1.0).abs() < 1e-12); // span point 3 is 0.9 up to rounding
     assert!((eval_f64("thermal_voltage(26.85)") - 0.025852).abs() < 1e-6);
     let t = eval_f64(r#"let c = comparator(#{a0: 200.0, gbw: 50e6, slew: 40e6, v_swing: 0.9}); c.delay(0.01)"#);

@@ -3,7 +3,7 @@
 use tickwork::physics::mirror::MirrorKind;
 use tickwork::physics::process::Process;
 use tickwork::timing::budget::budget;
-use tickwork::timing::from_process::{osc_from, Choices};
+use tickwork::timing::from_process::{Choices, osc_from};
 use tickwork::timing::{Kind, Mask, Osc};
 
 fn build(kind: Kind, keys: &[(&str, f64)]) -> Osc {
@@ -14,7 +14,10 @@ fn build(kind: Kind, keys: &[(&str, f64)]) -> Osc {
 
 fn all() -> Vec<Osc> {
     vec![
-        build(Kind::Window, &[("c", 250e-15), ("i", 1e-6), ("v_lo", 0.5), ("v_hi", 1.0), ("t_latch", 0.3e-9), ("t_logic", 0.3e-9)]),
+        build(
+            Kind::Window,
+            &[("c", 250e-15), ("i", 1e-6), ("v_lo", 0.5), ("v_hi", 1.0), ("t_latch", 0.3e-9), ("t_logic", 0.3e-9)],
+        ),
         build(Kind::PingPong, &[("c", 125e-15), ("i", 1e-6), ("v_hi", 1.0), ("t_latch", 0.3e-9)]),
         build(Kind::Reset, &[("c", 250e-15), ("i", 1e-6), ("v_hi", 1.0), ("t_reset", 5e-9)]),
         build(Kind::Schmitt, &[("c", 250e-15), ("i", 1e-6), ("t_cmp", 1e-9)]),
@@ -82,7 +85,13 @@ fn process_keys_are_checked() {
     let ch = || Choices { cap_type: "mim".into(), mirror: MirrorKind::Simple, res_type: "rpoly".into() };
     let pr = Process::demo180();
     let p = |k: &[(&str, f64)]| k.iter().map(|(a, b)| (a.to_string(), *b)).collect::<Vec<_>>();
-    let e = osc_from(&pr, Kind::Window, ch(), &p(&[("c", 1e-12), ("i", 1e-6), ("v_lo", 0.5), ("v_hi", 1.0), ("c_swn", 1e-15)])).unwrap_err();
+    let e = osc_from(
+        &pr,
+        Kind::Window,
+        ch(),
+        &p(&[("c", 1e-12), ("i", 1e-6), ("v_lo", 0.5), ("v_hi", 1.0), ("c_swn", 1e-15)]),
+    )
+    .unwrap_err();
     assert!(e.contains("unknown key 'c_swn'") && e.contains("mirror_w"), "{e}");
     let e = osc_from(&pr, Kind::RcInverter, ch(), &p(&[("c", 1e-12), ("r", 1e5), ("v_th", 0.9)])).unwrap_err();
     assert!(e.contains("unknown key 'v_th'") && e.contains("inv_wn"), "{e}");
@@ -102,7 +111,10 @@ fn inverter_threshold_and_resistor_come_from_the_process() {
     let pr = Process::demo180();
     let o = build(Kind::RcInverter, &[("c", 1e-12), ("r", 100e3)]);
     let formula = |pr: &Process, r: f64, c: f64| {
-        let (n, p) = (Mos::from_process(pr, MosType::N, 1e-6, 0.18e-6).unwrap(), Mos::from_process(pr, MosType::P, 2e-6, 0.18e-6).unwrap());
+        let (n, p) = (
+            Mos::from_process(pr, MosType::N, 1e-6, 0.18e-6).unwrap(),
+            Mos::from_process(pr, MosType::P, 2e-6, 0.18e-6).unwrap(),
+        );
         let k = (p.beta(27.0) / n.beta(27.0)).sqrt();
         let vm = (n.vt(27.0) + k * (pr.vdd - p.vt(27.0))) / (1.0 + k);
         let vdd = pr.vdd;

@@ -11,18 +11,55 @@ fn osc(kind: Kind, keys: &[(&str, f64)]) -> Osc {
 /// One realistic oscillator of each kind with every parasitic set (invented numbers).
 fn loaded() -> Vec<Osc> {
     let cur = [
-        ("c", 1e-12), ("i", 1e-6), ("c_vc1", 0.01), ("c_swn", 20e-15), ("c_swp", 15e-15), ("c_in", 10e-15), ("r_out", 20e6),
-        ("t_cmp", 2e-9), ("cmp_gbw", 200e6), ("t_logic", 1e-9), ("vdd", 1.8),
+        ("c", 1e-12),
+        ("i", 1e-6),
+        ("c_vc1", 0.01),
+        ("c_swn", 20e-15),
+        ("c_swp", 15e-15),
+        ("c_in", 10e-15),
+        ("r_out", 20e6),
+        ("t_cmp", 2e-9),
+        ("cmp_gbw", 200e6),
+        ("t_logic", 1e-9),
+        ("vdd", 1.8),
     ];
-    let with = |extra: &[(&'static str, f64)]| -> Vec<(&'static str, f64)> { cur.iter().chain(extra).copied().collect() };
+    let with =
+        |extra: &[(&'static str, f64)]| -> Vec<(&'static str, f64)> { cur.iter().chain(extra).copied().collect() };
     vec![
-        osc(Kind::Window, &with(&[("v_lo", 0.4), ("v_hi", 1.2), ("i_mismatch", 0.02), ("vos_hi", 2e-3), ("vos_lo", -1e-3), ("t_latch", 1e-9), ("t_sw", 0.3e-9)])),
-        osc(Kind::Schmitt, &with(&[("v_lo", 0.6), ("v_hi", 1.2), ("i_mismatch", -0.02), ("vos_hi", 1e-3), ("t_sw", 0.3e-9)])),
+        osc(
+            Kind::Window,
+            &with(&[
+                ("v_lo", 0.4),
+                ("v_hi", 1.2),
+                ("i_mismatch", 0.02),
+                ("vos_hi", 2e-3),
+                ("vos_lo", -1e-3),
+                ("t_latch", 1e-9),
+                ("t_sw", 0.3e-9),
+            ]),
+        ),
+        osc(
+            Kind::Schmitt,
+            &with(&[("v_lo", 0.6), ("v_hi", 1.2), ("i_mismatch", -0.02), ("vos_hi", 1e-3), ("t_sw", 0.3e-9)]),
+        ),
         osc(Kind::Schmitt, &with(&[("vtn", 0.45), ("vtp", 0.5), ("ratio_n", 2.0), ("ratio_p", 1.5)])),
         osc(Kind::Reset, &with(&[("v_hi", 1.0), ("vos", 2e-3), ("t_reset", 5e-9), ("r_reset", 2e3)])),
-        osc(Kind::PingPong, &with(&[("v_hi", 1.0), ("vos", 2e-3), ("c_mismatch", 0.01), ("t_latch", 1e-9), ("t_sw", 0.3e-9), ("r_reset", 5e3)])),
+        osc(
+            Kind::PingPong,
+            &with(&[
+                ("v_hi", 1.0),
+                ("vos", 2e-3),
+                ("c_mismatch", 0.01),
+                ("t_latch", 1e-9),
+                ("t_sw", 0.3e-9),
+                ("r_reset", 5e3),
+            ]),
+        ),
         osc(Kind::RcInverter, &[("c", 1e-12), ("r", 500e3), ("c_in", 30e-15), ("vos", 0.05), ("t_logic", 2e-9)]),
-        osc(Kind::Schmitt, &[("c", 1e-12), ("r", 500e3), ("v_lo", 0.6), ("v_hi", 1.2), ("c_in", 30e-15), ("t_cmp", 3e-9)]),
+        osc(
+            Kind::Schmitt,
+            &[("c", 1e-12), ("r", 500e3), ("v_lo", 0.6), ("v_hi", 1.2), ("c_in", 30e-15), ("t_cmp", 3e-9)],
+        ),
     ]
 }
 
@@ -67,13 +104,18 @@ fn each_contribution_has_its_physical_sign() {
         for p in o.active() {
             let d = alone(&o, p);
             match p {
-                CmpDelay | LogicDelay | SwitchDelay | SwitchCap | InputCap | CapVc => assert!(d > 0.0, "{:?} {p:?}: {d}", o.kind()),
+                CmpDelay | LogicDelay | SwitchDelay | SwitchCap | InputCap | CapVc => {
+                    assert!(d > 0.0, "{:?} {p:?}: {d}", o.kind())
+                }
                 _ => {}
             }
         }
     }
     let w = |extra: &[(&'static str, f64)]| {
-        let base: Vec<(&str, f64)> = [("c", 1e-12), ("i", 1e-6), ("v_lo", 0.4), ("v_hi", 1.2)].into_iter().chain(extra.iter().copied()).collect();
+        let base: Vec<(&str, f64)> = [("c", 1e-12), ("i", 1e-6), ("v_lo", 0.4), ("v_hi", 1.2)]
+            .into_iter()
+            .chain(extra.iter().copied())
+            .collect();
         osc(Kind::Window, &base)
     };
     // Offsets that widen the window lengthen the period, offsets that narrow it shorten it.
@@ -139,7 +181,18 @@ fn operating_point_moves_the_period() {
     // Schmitt thresholds from devices move with Vth(T): with unit ratios the hysteresis is
     // (Vtn + |Vtp|)/2 (Filanovsky–Baltes expressions), so a Vth falling with temperature
     // narrows the window and shortens the period.
-    let s = osc(Kind::Schmitt, &[("c", 1e-12), ("i", 1e-6), ("vtn", 0.45), ("vtp", 0.45), ("ratio_n", 1.0), ("ratio_p", 1.0), ("tc_vt", -1e-3)]);
+    let s = osc(
+        Kind::Schmitt,
+        &[
+            ("c", 1e-12),
+            ("i", 1e-6),
+            ("vtn", 0.45),
+            ("vtp", 0.45),
+            ("ratio_n", 1.0),
+            ("ratio_p", 1.0),
+            ("tc_vt", -1e-3),
+        ],
+    );
     let (hot, room) = (s.at(Some(125.0), None, None).unwrap().period().unwrap(), s.period().unwrap());
     assert!((hot / room - (0.45 - 0.098) / 0.45).abs() < 1e-9, "{hot} {room}");
 }
@@ -161,7 +214,7 @@ fn bad_input_is_named() {
     let e = bad(Kind::Window, &[("c", 1e-12), ("i", 1e-6), ("v_lo", 0.4), ("v_hi", 1.2), ("i_mismatch", f64::NAN)]);
     assert!(e.contains("'i_mismatch'"), "{e}");
     let e = bad(Kind::Schmitt, &[("c", 1e-12), ("i", 1e-6), ("r", 1e5), ("v_lo", 0.4), ("v_hi", 1.2)]);
-    assert!(e.contains("either 'i'") , "{e}");
+    assert!(e.contains("either 'i'"), "{e}");
     assert!(Kind::parse("relax").unwrap_err().contains("rc-inverter, schmitt, window, reset, pingpong"));
     // A delay chain so slow that the node would leave the supply is an error, not a number.
     let o = osc(Kind::Window, &[("c", 1e-12), ("i", 1e-6), ("v_lo", 0.1), ("v_hi", 1.7), ("t_logic", 500e-9)]);

@@ -5,9 +5,52 @@ use rand_chacha::ChaCha8Rng;
 use tickwork::engine::prepass::{is_incomplete, prepare};
 
 const PIECES: &[&str] = &[
-    "2p", "1.5u", "µ", "3.3kOhm", "1e-3", "0x1F", "..", ".", "\"", "'", "`", "${", "}", "{", "#{", "(", ")", "[", "]",
-    "//", "///", "/*", "*/", "\n", "\n/// prose\n", "const X = ", ";", "=", "==", "fn f() ", "let a = ", " ", "\t", "x2p",
-    "_", "Ω", "\\", "é", "2", "e", "E", "+", "-", "\r\n", "5Kg", "7_000M",
+    "2p",
+    "1.5u",
+    "µ",
+    "3.3kOhm",
+    "1e-3",
+    "0x1F",
+    "..",
+    ".",
+    "\"",
+    "'",
+    "`",
+    "${",
+    "}",
+    "{",
+    "#{",
+    "(",
+    ")",
+    "[",
+    "]",
+    "//",
+    "///",
+    "/*",
+    "*/",
+    "\n",
+    "\n/// prose\n",
+    "const X = ",
+    ";",
+    "=",
+    "==",
+    "fn f() ",
+    "let a = ",
+    " ",
+    "\t",
+    "x2p",
+    "_",
+    "Ω",
+    "\\",
+    "é",
+    "2",
+    "e",
+    "E",
+    "+",
+    "-",
+    "\r\n",
+    "5Kg",
+    "7_000M",
 ];
 
 #[test]
@@ -20,14 +63,18 @@ fn random_text_never_panics_and_keeps_lines() {
         match prepare(&src, Some(1)) {
             Ok(p) => assert_eq!(p.code.split('\n').count(), src.split('\n').count(), "line count changed for {src:?}"),
             Err(e) => {
-                assert!(e.line >= 1 && e.line <= src.split('\n').count(), "error line {} out of range for {src:?}", e.line);
+                assert!(
+                    e.line >= 1 && e.line <= src.split('\n').count(),
+                    "error line {} out of range for {src:?}",
+                    e.line
+                );
                 assert!(e.col >= 1, "error column 0 for {src:?}");
             }
         }
     }
 }
 
-mod cli_util;
+use crate::cli_util;
 
 #[test]
 fn random_text_through_the_engine_gives_errors_not_panics() {

@@ -1,6 +1,6 @@
 //! Markdown rendering of a report built directly: section order, the preamble, fences for
 //! printed text, escaping, the estimates note and the provenance block.
-use tickwork::report::markdown::{render, ESTIMATES_NOTE};
+use tickwork::report::markdown::{ESTIMATES_NOTE, render};
 use tickwork::report::{Item, Metric, Provenance, Report, Section, Spec};
 
 fn prov() -> Provenance {
@@ -18,8 +18,16 @@ fn prov() -> Provenance {
 fn report() -> Report {
     let mut r = Report::new("clock");
     r.sections[0].items.push(Item::Text("before any prose".into()));
-    r.sections.push(Section { prose: "## First".into(), line: 1, items: vec![Item::Show { label: "v_lo".into(), value: "0.600 V".into() }] });
-    r.sections.push(Section { prose: "## Second".into(), line: 5, items: vec![Item::Text("a ``` fence inside".into()), Item::Text("and more".into())] });
+    r.sections.push(Section {
+        prose: "## First".into(),
+        line: 1,
+        items: vec![Item::Show { label: "v_lo".into(), value: "0.600 V".into() }],
+    });
+    r.sections.push(Section {
+        prose: "## Second".into(),
+        line: 5,
+        items: vec![Item::Text("a ``` fence inside".into()), Item::Text("and more".into())],
+    });
     r
 }
 

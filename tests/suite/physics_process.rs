@@ -1,6 +1,6 @@
 //! Process files: the demo parses, corners apply, and every bad file gives an error naming the
 //! key and the file.
-use tickwork::physics::process::{Process, DEMO180_TOML};
+use tickwork::physics::process::{DEMO180_TOML, Process};
 
 fn with(edit: impl Fn(&str) -> String) -> Result<Process, String> {
     Process::from_toml(&edit(DEMO180_TOML), "lab.toml")

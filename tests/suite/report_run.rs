@@ -61,7 +61,13 @@ fn rerun_gives_byte_identical_files() {
     let names: Vec<&str> = first.iter().map(|(n, _)| n.as_str()).collect();
     assert_eq!(
         names,
-        ["fig-01-period-versus-c.svg", "fig-02-error-budget.svg", "fig-03-supply-spread.svg", "report.md", "results.json"]
+        [
+            "fig-01-period-versus-c.svg",
+            "fig-02-error-budget.svg",
+            "fig-03-supply-spread.svg",
+            "report.md",
+            "results.json"
+        ]
     );
     // Same folder again, and a different folder: the same bytes.
     assert_eq!(run(a.path(), SCRIPT, &[]).status.code(), Some(0));
@@ -192,7 +198,8 @@ fn failed_spec_exits_3_and_is_marked() {
     let md = std::fs::read_to_string(out_dir(d.path()).join("report.md")).unwrap();
     assert!(md.contains("| `osc.supply` | 4.200 µA | ≤ 4.00 µA | **FAIL** |"), "{md}");
     assert!(md.contains("**1 metric fails its spec.**"), "{md}");
-    let js: serde_json::Value = serde_json::from_str(&std::fs::read_to_string(out_dir(d.path()).join("results.json")).unwrap()).unwrap();
+    let js: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(out_dir(d.path()).join("results.json")).unwrap()).unwrap();
     assert_eq!(js["pass"], false);
     assert_eq!(js["metrics"][1]["name"], "osc.supply");
     assert_eq!(js["metrics"][1]["pass"], false);
@@ -205,7 +212,11 @@ fn script_error_exits_1_and_leaves_the_previous_report() {
     let d = tempfile::tempdir().unwrap();
     assert_eq!(run(d.path(), SCRIPT, &[]).status.code(), Some(0));
     let before = files(&out_dir(d.path()));
-    let o = run(d.path(), &SCRIPT.replace("show(\"period\", t, \"s\");", "show(\"period\", t, \"s\"); let z = no_such_thing;"), &[]);
+    let o = run(
+        d.path(),
+        &SCRIPT.replace("show(\"period\", t, \"s\");", "show(\"period\", t, \"s\"); let z = no_such_thing;"),
+        &[],
+    );
     assert_eq!(o.status.code(), Some(1));
     assert!(String::from_utf8_lossy(&o.stderr).contains("no report written; the previous one in"));
     assert_eq!(files(&out_dir(d.path())), before);
@@ -289,7 +300,10 @@ fn figures_of_an_earlier_run_are_removed_and_files_are_readable() {
     let fewer = SCRIPT.replace("plot(#{title: \"Supply spread\"", "//plot(#{title: \"Supply spread\"");
     assert_eq!(run(d.path(), &fewer, &[]).status.code(), Some(0));
     let names: Vec<String> = files(&out_dir(d.path())).into_iter().map(|(n, _)| n).collect();
-    assert_eq!(names, ["fig-01-period-versus-c.svg", "fig-02-error-budget.svg", "notes.txt", "report.md", "results.json"]);
+    assert_eq!(
+        names,
+        ["fig-01-period-versus-c.svg", "fig-02-error-budget.svg", "notes.txt", "report.md", "results.json"]
+    );
     #[cfg(unix)]
     {
         use std::os::unix::fs::PermissionsExt;

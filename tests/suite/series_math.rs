@@ -1,6 +1,6 @@
 //! Series maths checked against numpy (values printed by tests/reference/series_reference.py,
 //! numpy 2.4, run once; pasted beside each check).
-mod cli_util;
+use crate::cli_util;
 use cli_util::*;
 
 const X: &str = "let x = series([3.1, -0.4, 2.7, 9.9, 0.05, 4.4, 4.4, -2.2, 7.5, 1.0]);\n";
@@ -27,7 +27,14 @@ fn reductions_match_numpy() {
 #[test]
 fn quantiles_match_numpy_linear_method() {
     // np.quantile(x, p), default method 'linear'
-    for (p, q) in [(0.0, -2.2), (0.1, -0.5800000000000001), (0.25, 0.2875), (0.5, 2.9000000000000004), (0.9, 7.739999999999999), (1.0, 9.9)] {
+    for (p, q) in [
+        (0.0, -2.2),
+        (0.1, -0.5800000000000001),
+        (0.25, 0.2875),
+        (0.5, 2.9000000000000004),
+        (0.9, 7.739999999999999),
+        (1.0, 9.9),
+    ] {
         close(x(&format!("x.quantile({p:?})")), q, 1e-14);
     }
 }
@@ -66,7 +73,10 @@ fn masks_selection_slicing_and_indexing() {
     assert_eq!(x("x[1..3].sum()"), -0.4 + 2.7);
     assert_eq!(x("x[1..=3].len()"), 3.0);
     assert_eq!(x("x.slice(8, 100).len()"), 2.0);
-    assert_eq!(x("x.map(|v| v * v).sum()"), [3.1f64, -0.4, 2.7, 9.9, 0.05, 4.4, 4.4, -2.2, 7.5, 1.0].iter().map(|v| v * v).sum::<f64>());
+    assert_eq!(
+        x("x.map(|v| v * v).sum()"),
+        [3.1f64, -0.4, 2.7, 9.9, 0.05, 4.4, 4.4, -2.2, 7.5, 1.0].iter().map(|v| v * v).sum::<f64>()
+    );
     assert_eq!(x("let y = x; y[0] = 100; x[0] + y[0]"), 103.1); // copy on write: x unchanged
     assert_eq!(x("let s = 0.0; for v in x { s += v; } s"), x("x.sum()"));
     assert_eq!(x("x.to_array().len()"), 10.0);

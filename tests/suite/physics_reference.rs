@@ -50,7 +50,12 @@ fn cascode_mirror_matches_scipy_solution() {
     let mi = Mirror::from_process(&p, MirrorKind::Cascode, MosType::N, 1e-6, 1.0, 4e-6, 2e-6, 0.0).unwrap();
     let (vg, vb) = mi.bias().unwrap();
     assert!((vg - 0.4826166753081596).abs() < 1e-9 && (vb - 1.1338798093218607).abs() < 1e-9, "{vg} {vb}");
-    for (v, i) in [(0.3, 9.943922728982453e-07), (0.6, 9.999516688993243e-07), (1.0, 9.999953295504563e-07), (1.8, 1.0000229148887246e-06)] {
+    for (v, i) in [
+        (0.3, 9.943922728982453e-07),
+        (0.6, 9.999516688993243e-07),
+        (1.0, 9.999953295504563e-07),
+        (1.8, 1.0000229148887246e-06),
+    ] {
         assert!(rel(mi.i_out(v), i) < 1e-8, "vout {v}: {} vs {i}", mi.i_out(v));
     }
 }
@@ -84,7 +89,9 @@ fn comparator_step_delay_matches_ode_solution() {
     // physics_reference.py: scipy solve_ivp of dv/dt = min((A0·Vod − v)/τ, SR), event at v = 0.9 V.
     let c = comparator();
     assert!(rel(c.spec.tau(), 6.366197723675814e-07) < 1e-14);
-    for (vod, t) in [(0.006, 8.825424005622294e-07), (0.01, 3.8059485531588233e-07), (0.05, 6.004004329679616e-08), (0.3, 2.25e-08)] {
+    for (vod, t) in
+        [(0.006, 8.825424005622294e-07), (0.01, 3.8059485531588233e-07), (0.05, 6.004004329679616e-08), (0.3, 2.25e-08)]
+    {
         assert!(rel(c.delay(vod), t) < 1e-6, "overdrive {vod}: {} vs {t}", c.delay(vod));
     }
 }

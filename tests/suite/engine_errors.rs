@@ -1,6 +1,6 @@
 //! Error messages: `file:line:col: message`, the source line and a caret, a non-zero exit,
 //! positions exact in the original text even after SI literals were rewritten.
-mod cli_util;
+use crate::cli_util;
 use cli_util::*;
 
 fn run_err(src: &str) -> String {
@@ -96,7 +96,10 @@ fn scripts_cannot_import_from_outside_the_project() {
 fn modules_from_stdlib_and_beside_the_script() {
     let p = Project::new();
     p.write("lib/helpers.rhai", "/// Twice x.\nfn twice(x) { 2.0 * x }\nfn cap() { 2p }\n");
-    p.write("lib/m.rhai", "import \"ratio\" as r;\nimport \"helpers\" as h;\nprint(h::twice(r::pct(1.5, 1.0)));\nprint(h::cap());\n");
+    p.write(
+        "lib/m.rhai",
+        "import \"ratio\" as r;\nimport \"helpers\" as h;\nprint(h::twice(r::pct(1.5, 1.0)));\nprint(h::cap());\n",
+    );
     let o = p.tickwork(&["run", "lib/m.rhai"]);
     assert!(o.status.success(), "{}", stderr(&o));
     assert_eq!(stdout(&o), "100.0\n2e-12\n");
@@ -107,6 +110,9 @@ fn every_stdlib_file_is_embedded() {
     let dir = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("stdlib");
     for e in std::fs::read_dir(dir).unwrap() {
         let name = e.unwrap().path().file_stem().unwrap().to_string_lossy().to_string();
-        assert!(tickwork::engine::stdlib::get(&name).is_some(), "stdlib/{name}.rhai is not listed in src/engine/stdlib.rs");
+        assert!(
+            tickwork::engine::stdlib::get(&name).is_some(),
+            "stdlib/{name}.rhai is not listed in src/engine/stdlib.rs"
+        );
     }
 }

@@ -34,7 +34,10 @@ show("duty", r.duty());
 #[test]
 fn script_errors_name_the_key() {
     let cases = [
-        (r#"osc("window", #{c: 1p, i: 1u, v_lo: 0.2, v_hi: 1.2, colour: 3})"#, "unknown key 'colour'; valid keys are: c, i, v_lo"),
+        (
+            r#"osc("window", #{c: 1p, i: 1u, v_lo: 0.2, v_hi: 1.2, colour: 3})"#,
+            "unknown key 'colour'; valid keys are: c, i, v_lo",
+        ),
         (r#"osc("window", #{c: "big", i: 1u, v_lo: 0.2, v_hi: 1.2})"#, "key 'c' must be a number"),
         (r#"osc("window", #{c: 1p, i: 1u, v_lo: 0.2, v_hi: 1.2, t_logic: -1n})"#, "key 't_logic'"),
         (r#"osc("ring", #{c: 1p})"#, "unknown oscillator kind 'ring'"),
@@ -48,7 +51,6 @@ fn script_errors_name_the_key() {
     }
 }
 
-
 #[test]
 fn example_script_runs() {
     // scripts/02-period-budget.rhai end to end: every timing call succeeds, the report has its
@@ -56,7 +58,11 @@ fn example_script_runs() {
     let text = std::fs::read_to_string(concat!(env!("CARGO_MANIFEST_DIR"), "/scripts/02-period-budget.rhai")).unwrap();
     let dir = tempfile::tempdir().unwrap();
     std::fs::write(dir.path().join("t.rhai"), text).unwrap();
-    let o = Command::new(env!("CARGO_BIN_EXE_tickwork")).args(["run", "t.rhai", "--out", "out"]).current_dir(dir.path()).output().unwrap();
+    let o = Command::new(env!("CARGO_BIN_EXE_tickwork"))
+        .args(["run", "t.rhai", "--out", "out"])
+        .current_dir(dir.path())
+        .output()
+        .unwrap();
     let (out, err) = (String::from_utf8_lossy(&o.stdout), String::from_utf8_lossy(&o.stderr));
     assert!(o.status.success(), "{err}");
     assert!(out.contains("window: ideal period = 250 ns") && out.contains("ping-pong: ideal period = 250 ns"), "{out}");

@@ -72,9 +72,20 @@ fn nonlinear_ramp_matches_scipy() {
     // Values from tests/reference/timing_nonlinear_ramp.py (scipy 1.17 quad and solve_ivp
     // DOP853 with event location, run once, printed values pasted here).
     let keys = [
-        ("c", 1e-12), ("c_vc1", 0.02), ("c_vc2", -0.005), ("c_swn", 50e-15), ("c_swp", 40e-15), ("sw_phi", 0.8),
-        ("sw_m", 0.5), ("i", 1e-6), ("i_mismatch", 0.03), ("r_out", 2e6), ("v_ds_ref", 0.6), ("vdd", 1.8),
-        ("v_lo", 0.2), ("v_hi", 1.6),
+        ("c", 1e-12),
+        ("c_vc1", 0.02),
+        ("c_vc2", -0.005),
+        ("c_swn", 50e-15),
+        ("c_swp", 40e-15),
+        ("sw_phi", 0.8),
+        ("sw_m", 0.5),
+        ("i", 1e-6),
+        ("i_mismatch", 0.03),
+        ("r_out", 2e6),
+        ("v_ds_ref", 0.6),
+        ("vdd", 1.8),
+        ("v_lo", 0.2),
+        ("v_hi", 1.6),
     ];
     let o = osc(Kind::Window, &keys);
     let cy = o.cycle(Mask::ALL).unwrap();

@@ -2,8 +2,8 @@
 //! its source) and cross-checked against the analytic period model for every topology.
 use tickwork::physics::mirror::MirrorKind;
 use tickwork::physics::process::Process;
-use tickwork::timing::from_process::{osc_from, Choices};
-use tickwork::timing::transient::{simulate, simulate_masked, EventKind, Options, Transient};
+use tickwork::timing::from_process::{Choices, osc_from};
+use tickwork::timing::transient::{EventKind, Options, Transient, simulate, simulate_masked};
 use tickwork::timing::{Kind, Mask, Osc};
 
 fn osc(kind: Kind, keys: &[(&str, f64)]) -> Osc {
@@ -33,26 +33,119 @@ fn times(s: &Transient, kind: EventKind) -> Vec<f64> {
 /// Every parasitic of every kind switched on, explicit numbers (invented, demo scale).
 fn explicit_full() -> Vec<Osc> {
     let ramp = [
-        ("c_vc1", 0.02), ("c_vc2", -0.005), ("c_swn", 20e-15), ("c_swp", 15e-15), ("c_in", 10e-15), ("r_out", 5e6),
-        ("v_ds_ref", 0.6), ("cmp_gbw", 200e6), ("cmp_a0", 1e3), ("t_cmp", 0.5e-9),
+        ("c_vc1", 0.02),
+        ("c_vc2", -0.005),
+        ("c_swn", 20e-15),
+        ("c_swp", 15e-15),
+        ("c_in", 10e-15),
+        ("r_out", 5e6),
+        ("v_ds_ref", 0.6),
+        ("cmp_gbw", 200e6),
+        ("cmp_a0", 1e3),
+        ("t_cmp", 0.5e-9),
     ];
     let with = |base: &[(&'static str, f64)], extra: &[(&'static str, f64)]| -> Vec<(&'static str, f64)> {
         base.iter().chain(extra).copied().collect()
     };
     vec![
-        osc(Kind::Window, &with(&ramp, &[("c", 250e-15), ("i", 1.2e-6), ("v_lo", 0.5), ("v_hi", 1.1), ("i_mismatch", 0.02), ("vos_hi", 3e-3), ("vos_lo", -2e-3), ("t_latch", 0.3e-9), ("t_logic", 0.3e-9), ("t_sw", 0.2e-9)])),
-        osc(Kind::Schmitt, &with(&ramp, &[("c", 250e-15), ("i", 1.2e-6), ("vtn", 0.45), ("vtp", 0.5), ("ratio_n", 1.5), ("ratio_p", 1.2), ("i_mismatch", -0.03), ("vos_hi", 2e-3), ("t_logic", 0.4e-9), ("t_sw", 0.2e-9)])),
-        osc(Kind::Reset, &with(&ramp, &[("c", 250e-15), ("i", 1.2e-6), ("v_hi", 0.9), ("vos", 4e-3), ("t_logic", 0.3e-9), ("t_reset", 3e-9), ("r_reset", 2e3)])),
-        osc(Kind::PingPong, &with(&ramp, &[("c", 250e-15), ("i", 1.2e-6), ("v_hi", 0.6), ("vos", 4e-3), ("c_mismatch", 0.01), ("t_latch", 0.3e-9), ("t_logic", 0.3e-9), ("t_sw", 0.2e-9), ("r_reset", 5e3)])),
-        osc(Kind::RcInverter, &[("c", 1e-12), ("r", 100e3), ("vtn", 0.45), ("vtp", 0.5), ("ratio_pn", 2.0), ("r_vc", 0.01), ("c_in", 20e-15), ("vos", 5e-3), ("t_logic", 1e-9)]),
+        osc(
+            Kind::Window,
+            &with(
+                &ramp,
+                &[
+                    ("c", 250e-15),
+                    ("i", 1.2e-6),
+                    ("v_lo", 0.5),
+                    ("v_hi", 1.1),
+                    ("i_mismatch", 0.02),
+                    ("vos_hi", 3e-3),
+                    ("vos_lo", -2e-3),
+                    ("t_latch", 0.3e-9),
+                    ("t_logic", 0.3e-9),
+                    ("t_sw", 0.2e-9),
+                ],
+            ),
+        ),
+        osc(
+            Kind::Schmitt,
+            &with(
+                &ramp,
+                &[
+                    ("c", 250e-15),
+                    ("i", 1.2e-6),
+                    ("vtn", 0.45),
+                    ("vtp", 0.5),
+                    ("ratio_n", 1.5),
+                    ("ratio_p", 1.2),
+                    ("i_mismatch", -0.03),
+                    ("vos_hi", 2e-3),
+                    ("t_logic", 0.4e-9),
+                    ("t_sw", 0.2e-9),
+                ],
+            ),
+        ),
+        osc(
+            Kind::Reset,
+            &with(
+                &ramp,
+                &[
+                    ("c", 250e-15),
+                    ("i", 1.2e-6),
+                    ("v_hi", 0.9),
+                    ("vos", 4e-3),
+                    ("t_logic", 0.3e-9),
+                    ("t_reset", 3e-9),
+                    ("r_reset", 2e3),
+                ],
+            ),
+        ),
+        osc(
+            Kind::PingPong,
+            &with(
+                &ramp,
+                &[
+                    ("c", 250e-15),
+                    ("i", 1.2e-6),
+                    ("v_hi", 0.6),
+                    ("vos", 4e-3),
+                    ("c_mismatch", 0.01),
+                    ("t_latch", 0.3e-9),
+                    ("t_logic", 0.3e-9),
+                    ("t_sw", 0.2e-9),
+                    ("r_reset", 5e3),
+                ],
+            ),
+        ),
+        osc(
+            Kind::RcInverter,
+            &[
+                ("c", 1e-12),
+                ("r", 100e3),
+                ("vtn", 0.45),
+                ("vtp", 0.5),
+                ("ratio_pn", 2.0),
+                ("r_vc", 0.01),
+                ("c_in", 20e-15),
+                ("vos", 5e-3),
+                ("t_logic", 1e-9),
+            ],
+        ),
     ]
 }
 
 /// The demo-process oscillators of scripts/02-period-budget.rhai and tests/timing_process.rs
 /// (invented sizes and delays).
 fn demo_full() -> Vec<Osc> {
-    let common = [("c", 250e-15), ("i", 1.2e-6), ("cmp_itail", 1e-6), ("t_latch", 0.3e-9), ("t_logic", 0.3e-9), ("t_sw", 0.2e-9)];
-    let with = |extra: &[(&'static str, f64)]| -> Vec<(&'static str, f64)> { common.iter().chain(extra).copied().collect() };
+    let common = [
+        ("c", 250e-15),
+        ("i", 1.2e-6),
+        ("cmp_itail", 1e-6),
+        ("t_latch", 0.3e-9),
+        ("t_logic", 0.3e-9),
+        ("t_sw", 0.2e-9),
+    ];
+    let with =
+        |extra: &[(&'static str, f64)]| -> Vec<(&'static str, f64)> { common.iter().chain(extra).copied().collect() };
     vec![
         demo(Kind::Window, &with(&[("v_lo", 0.5), ("v_hi", 1.1)])),
         demo(Kind::PingPong, &with(&[("v_hi", 0.6)])),
@@ -96,7 +189,10 @@ fn rc_astable_matches_the_textbook_formula_every_cycle() {
     // Tolerance: the integrator's 1e-10 relative tolerance over ~20 steps per phase.
     let (r, c, vdd) = (100e3, 10e-12, 1.8);
     for beta in [0.1, 0.462, 0.8] {
-        let o = osc(Kind::Schmitt, &[("r", r), ("c", c), ("vdd", vdd), ("v_lo", (1.0 - beta) * vdd / 2.0), ("v_hi", (1.0 + beta) * vdd / 2.0)]);
+        let o = osc(
+            Kind::Schmitt,
+            &[("r", r), ("c", c), ("vdd", vdd), ("v_lo", (1.0 - beta) * vdd / 2.0), ("v_hi", (1.0 + beta) * vdd / 2.0)],
+        );
         let t = 2.0 * r * c * ((1.0 + beta) / (1.0 - beta)).ln();
         let s = sim(&o, 10);
         for p in &s.periods {
@@ -127,9 +223,24 @@ fn nonlinear_ramp_event_times_match_scipy() {
     // location, rtol 1e-13; run once, printed values pasted here): crossing, comparator
     // decision and switch times of the first three cycles, and the node at each.
     let keys = [
-        ("c", 1e-12), ("c_vc1", 0.02), ("c_vc2", -0.005), ("c_swn", 50e-15), ("c_swp", 40e-15), ("sw_phi", 0.8),
-        ("sw_m", 0.5), ("i", 1e-6), ("i_mismatch", 0.03), ("r_out", 2e6), ("v_ds_ref", 0.6), ("vdd", 1.8),
-        ("v_lo", 0.2), ("v_hi", 1.6), ("t_cmp", 20e-9), ("t_logic", 5e-9), ("t_latch", 2e-9), ("t_sw", 1e-9),
+        ("c", 1e-12),
+        ("c_vc1", 0.02),
+        ("c_vc2", -0.005),
+        ("c_swn", 50e-15),
+        ("c_swp", 40e-15),
+        ("sw_phi", 0.8),
+        ("sw_m", 0.5),
+        ("i", 1e-6),
+        ("i_mismatch", 0.03),
+        ("r_out", 2e6),
+        ("v_ds_ref", 0.6),
+        ("vdd", 1.8),
+        ("v_lo", 0.2),
+        ("v_hi", 1.6),
+        ("t_cmp", 20e-9),
+        ("t_logic", 5e-9),
+        ("t_latch", 2e-9),
+        ("t_sw", 1e-9),
     ];
     let o = osc(Kind::Window, &keys);
     #[rustfmt::skip]
@@ -147,7 +258,8 @@ fn nonlinear_ramp_event_times_match_scipy() {
     // 1.6e-11 relative (tests/reference/timing_nonlinear_ramp.py).
     for (rtol, t_tol, v_tol) in [(None, 1e-9, 1e-9), (Some(1e-12), 5e-11, 5e-11)] {
         let s = simulate(&o, 3, &Options { rtol, ..Options::default() }).unwrap();
-        let ev = |k: EventKind| -> Vec<(f64, f64)> { s.events.iter().filter(|e| e.kind == k).map(|e| (e.t, e.v)).collect() };
+        let ev =
+            |k: EventKind| -> Vec<(f64, f64)> { s.events.iter().filter(|e| e.kind == k).map(|e| (e.t, e.v)).collect() };
         let (cr, de, sw) = (ev(EventKind::Crossing), ev(EventKind::Decision), ev(EventKind::Switch));
         assert_eq!((cr.len(), de.len(), sw.len()), (6, 6, 6));
         for (k, r) in reference.iter().enumerate() {
@@ -231,7 +343,11 @@ fn waveforms_stay_within_physical_bounds() {
         for v in &s.v {
             assert_eq!(v.len(), s.t.len());
             for x in v {
-                assert!(x.is_finite() && *x >= lo - eps && *x <= hi + eps, "{:?}: {x} V outside [{lo}, {hi}]", o.kind());
+                assert!(
+                    x.is_finite() && *x >= lo - eps && *x <= hi + eps,
+                    "{:?}: {x} V outside [{lo}, {hi}]",
+                    o.kind()
+                );
                 if o.kind() != Kind::RcInverter {
                     assert!(*x >= -eps && *x <= vdd + eps, "{:?}: {x} V outside the supply", o.kind());
                 }
@@ -244,7 +360,9 @@ fn waveforms_stay_within_physical_bounds() {
 #[test]
 fn waveform_points_are_bounded_by_the_option() {
     let o = osc(Kind::Reset, &[("c", 1e-12), ("i", 1e-6), ("v_hi", 1.0), ("t_reset", 5e-9)]);
-    let n = |p: Option<usize>, cycles: usize| simulate(&o, cycles, &Options { points_per_phase: p, ..Options::default() }).unwrap().t.len();
+    let n = |p: Option<usize>, cycles: usize| {
+        simulate(&o, cycles, &Options { points_per_phase: p, ..Options::default() }).unwrap().t.len()
+    };
     assert_eq!(n(Some(10), 7), 10 * 2 * 7);
     assert_eq!(n(Some(0), 7), 0);
     assert_eq!(n(None, 3), 64 * 2 * 3);
@@ -271,8 +389,16 @@ fn script_level_simulation_and_errors() {
     let run = |code: &str| {
         let dir = tempfile::tempdir().unwrap();
         std::fs::write(dir.path().join("t.rhai"), code).unwrap();
-        let o = Command::new(env!("CARGO_BIN_EXE_tickwork")).args(["run", "t.rhai", "--out", "out"]).current_dir(dir.path()).output().unwrap();
-        (o.status.success(), String::from_utf8_lossy(&o.stdout).to_string(), String::from_utf8_lossy(&o.stderr).to_string())
+        let o = Command::new(env!("CARGO_BIN_EXE_tickwork"))
+            .args(["run", "t.rhai", "--out", "out"])
+            .current_dir(dir.path())
+            .output()
+            .unwrap();
+        (
+            o.status.success(),
+            String::from_utf8_lossy(&o.stdout).to_string(),
+            String::from_utf8_lossy(&o.stderr).to_string(),
+        )
     };
     // 1 pF, 1.66 V, 1 µA → 3.32 µs (common practice, ping-pong T = 2·C·V_ref/I)
     let (ok, out, err) = run(r#"
@@ -293,7 +419,8 @@ show("label", s.events.label[2]);
         ("o.simulate(3, #{points_per_phase: -1})", "'points_per_phase' must be in 0..=10000"),
         ("o.simulate(3, #{v0: \"low\"})", "option 'v0' must be a number"),
     ] {
-        let (ok, _, err) = run(&format!("let o = osc(\"window\", #{{c: 1p, i: 1u, v_lo: 0.2, v_hi: 1.0}});\nlet s = {code};\n"));
+        let (ok, _, err) =
+            run(&format!("let o = osc(\"window\", #{{c: 1p, i: 1u, v_lo: 0.2, v_hi: 1.0}});\nlet s = {code};\n"));
         assert!(!ok && err.contains(msg), "{code}: {err}");
     }
 }

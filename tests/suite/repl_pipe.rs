@@ -1,6 +1,6 @@
 //! The REPL read through a pipe: the same statements give the same output as `tickwork run`,
 //! variables and functions persist, multi-line entries continue, help shows signatures.
-mod cli_util;
+use crate::cli_util;
 use cli_util::*;
 
 const STATEMENTS: &str = "\
@@ -28,7 +28,10 @@ fn piped_repl_matches_batch_run() {
     assert!(repl.status.success(), "{}", stderr(&repl));
     assert_eq!(stdout(&repl), stdout(&batch));
     // Hand calculation: 2·1 pF·1.66 V/1 µA = 3.32 µs → 301 kHz; at 2 µA the period halves (−50 %).
-    assert_eq!(stdout(&batch), "periods = n = 3, min 1.66 µs, mean 2.40 µs, max 3.32 µs\nfirst = 3.32 µs\n301 kHz\n-50.0 %\n");
+    assert_eq!(
+        stdout(&batch),
+        "periods = n = 3, min 1.66 µs, mean 2.40 µs, max 3.32 µs\nfirst = 3.32 µs\n301 kHz\n-50.0 %\n"
+    );
 }
 
 #[test]
@@ -64,7 +67,8 @@ fn defs_writes_every_documented_and_registered_function() {
     let p = Project::new();
     let o = p.tickwork(&["defs", "--out", "defs.json"]);
     assert!(o.status.success(), "{}", stderr(&o));
-    let v: serde_json::Value = serde_json::from_str(&std::fs::read_to_string(p.path().join("defs.json")).unwrap()).unwrap();
+    let v: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(p.path().join("defs.json")).unwrap()).unwrap();
     let names: Vec<&str> = v["functions"].as_array().unwrap().iter().map(|f| f["name"].as_str().unwrap()).collect();
     assert_eq!(names.len(), tickwork::engine::docs::all().len());
     for must in ["eng", "span", "show", "plot", "process", "osc"] {

@@ -1,7 +1,7 @@
 //! Constants and textbook laws: CODATA, Pelgrom, junction capacitance, switch charge
 //! injection and clock feedthrough, resistor and capacitor coefficients.
 use tickwork::physics::capacitor::Capacitor;
-use tickwork::physics::constants::{thermal_voltage, K_B, Q_E};
+use tickwork::physics::constants::{K_B, Q_E, thermal_voltage};
 use tickwork::physics::junction::{self, junction_cap};
 use tickwork::physics::mismatch::{pelgrom, pelgrom_unequal};
 use tickwork::physics::mosfet::{Mos, MosType};
@@ -69,7 +69,8 @@ fn diffusion_capacitance_is_area_plus_sidewall() {
     let m = Mos::from_process(&p, MosType::N, 3e-6, 0.18e-6).unwrap();
     let (a, per) = (3e-6 * p.nmos.ldiff, 3e-6 + 2.0 * p.nmos.ldiff);
     let vr = 1.2;
-    let expect = p.nmos.cj * a / (1.0 + vr / p.nmos.pb).powf(p.nmos.mj) + p.nmos.cjsw * per / (1.0 + vr / p.nmos.pbsw).powf(p.nmos.mjsw);
+    let expect = p.nmos.cj * a / (1.0 + vr / p.nmos.pb).powf(p.nmos.mj)
+        + p.nmos.cjsw * per / (1.0 + vr / p.nmos.pbsw).powf(p.nmos.mjsw);
     assert!(rel(m.cj_diffusion(vr), expect) < 1e-12);
 }
 

@@ -1,5 +1,5 @@
 //! The SI-literal pre-pass as a user meets it: values, and text that only looks like literals.
-mod cli_util;
+use crate::cli_util;
 use cli_util::*;
 
 /// Relative closeness.
@@ -11,10 +11,25 @@ fn close(a: f64, b: f64) -> bool {
 fn prefixes_have_their_si_values() {
     // BIPM SI Brochure, 9th ed., table 7: p = 1e-12, n = 1e-9, µ = 1e-6, m = 1e-3, k = 1e3, M = 1e6.
     for (lit, val) in [
-        ("2p", 2e-12), ("1.5u", 1.5e-6), ("1.5µ", 1.5e-6), ("1.5μ", 1.5e-6), ("45n", 45e-9),
-        ("3.3k", 3.3e3), ("10M", 10e6), ("2m", 2e-3), ("7f", 7e-15), ("1G", 1e9), ("1_000k", 1e6),
-        ("2pF", 2e-12), ("1.66V", 1.66), ("45ns", 45e-9), ("2uA", 2e-6), ("3.3kOhm", 3.3e3),
-        ("4MHz", 4e6), ("1.2e3k", 1.2e6), ("5mV", 5e-3),
+        ("2p", 2e-12),
+        ("1.5u", 1.5e-6),
+        ("1.5µ", 1.5e-6),
+        ("1.5μ", 1.5e-6),
+        ("45n", 45e-9),
+        ("3.3k", 3.3e3),
+        ("10M", 10e6),
+        ("2m", 2e-3),
+        ("7f", 7e-15),
+        ("1G", 1e9),
+        ("1_000k", 1e6),
+        ("2pF", 2e-12),
+        ("1.66V", 1.66),
+        ("45ns", 45e-9),
+        ("2uA", 2e-6),
+        ("3.3kOhm", 3.3e3),
+        ("4MHz", 4e6),
+        ("1.2e3k", 1.2e6),
+        ("5mV", 5e-3),
     ] {
         assert!(close(eval_f64(lit), val), "{lit} should be {val}, got {}", eval_f64(lit));
     }
@@ -95,7 +110,10 @@ fn eng_formats_with_prefixes() {
 fn hand_calculation_of_the_ideal_window_period() {
     // T = 2·C·ΔV/I (common practice): 1 pF, 1.66 V, 1 µA → 3.32 µs.
     let p = Project::new();
-    p.write("ideal.rhai", "let t = 2 * 1pF * 1.66V / 1uA;\nshow(\"period\", t, \"s\");\nprint(eng(1.0 / t, \"Hz\", 4));\n");
+    p.write(
+        "ideal.rhai",
+        "let t = 2 * 1pF * 1.66V / 1uA;\nshow(\"period\", t, \"s\");\nprint(eng(1.0 / t, \"Hz\", 4));\n",
+    );
     let o = p.tickwork(&["run", "ideal.rhai"]);
     assert!(o.status.success(), "{}", stderr(&o));
     assert_eq!(stdout(&o), "period = 3.32 µs\n301.2 kHz\n");
