@@ -18,6 +18,8 @@ pub fn all() -> Vec<Doc> {
     v.extend_from_slice(super::report_api::DOCS);
     v.extend_from_slice(super::physics_api::DOCS);
     v.extend_from_slice(super::timing_api::DOCS);
+    v.extend_from_slice(super::analysis_api::DOCS);
+    v.extend_from_slice(super::fit_api::DOCS);
     v
 }
 

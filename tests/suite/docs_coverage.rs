@@ -7,7 +7,7 @@ use rhai::Engine;
 use tickwork::engine::docs::Doc;
 use tickwork::engine::sandbox::Sandbox;
 use tickwork::engine::session::{Session, Shared};
-use tickwork::engine::{core_api, physics_api, report_api, series_api, timing_api};
+use tickwork::engine::{analysis_api, core_api, fit_api, physics_api, report_api, series_api, timing_api};
 
 /// Names a module registers that a user calls by name (not operators, indexers, internal
 /// markers or the display hooks that print and string interpolation use).
@@ -40,6 +40,8 @@ fn each_module_documents_exactly_what_it_registers() {
         ("report_api", registered(|e| report_api::register(e, &s)), documented(report_api::DOCS)),
         ("physics_api", registered(|e| physics_api::register(e, &s)), documented(physics_api::DOCS)),
         ("timing_api", registered(|e| timing_api::register(e, &s)), documented(timing_api::DOCS)),
+        ("analysis_api", registered(analysis_api::register), documented(analysis_api::DOCS)),
+        ("fit_api", registered(|e| fit_api::register(e, &s)), documented(fit_api::DOCS)),
     ];
     for (module, reg, doc) in cases {
         assert!(!reg.is_empty(), "{module} registers nothing");

@@ -1,8 +1,10 @@
 //! The integration tests, one binary: linking one test executable instead of two dozen keeps
 //! the test build short on small machines. Each module is one area; every external check names
 //! its source beside it.
-mod cli_util;
+mod analysis_fit;
+mod analysis_noise;
 mod bad_input;
+mod cli_util;
 mod docs_coverage;
 mod engine_errors;
 mod engine_literals;
@@ -21,6 +23,7 @@ mod report_markdown;
 mod report_plot;
 mod report_run;
 mod series_math;
+mod timing_noise;
 mod timing_process;
 mod timing_properties;
 mod timing_references;
