@@ -26,13 +26,13 @@ fn eval(f: &mut Model, p: &[f64], n: usize) -> Result<Vec<f64>, String> {
     Ok(m)
 }
 
-/// Forward-difference Jacobian ∂f_i/∂p_j, step √ε·max(|p_j|, typical) (common practice;
-/// Dennis & Schnabel 1983, §5.4).
-fn jacobian(f: &mut Model, p: &[f64], m0: &[f64], typical: &[f64]) -> Result<DMatrix<f64>, String> {
+/// Forward-difference Jacobian ∂f_i/∂p_j, step √ε·|p_j|, or √ε for a parameter at zero (as
+/// MINPACK's lmdif, Moré, Garbow and Hillstrom 1980).
+fn jacobian(f: &mut Model, p: &[f64], m0: &[f64]) -> Result<DMatrix<f64>, String> {
     let (n, k) = (m0.len(), p.len());
     let mut j = DMatrix::zeros(n, k);
     for c in 0..k {
-        let h = f64::EPSILON.sqrt() * p[c].abs().max(typical[c]);
+        let h = f64::EPSILON.sqrt() * if p[c] == 0.0 { 1.0 } else { p[c].abs() };
         let mut q = p.to_vec();
         q[c] += h;
         let h = q[c] - p[c];
@@ -42,6 +42,16 @@ fn jacobian(f: &mut Model, p: &[f64], m0: &[f64], typical: &[f64]) -> Result<DMa
         }
     }
     Ok(j)
+}
+
+/// 1/√diag(JᵀJ): the scaling that makes parameters of very different sizes (farads beside
+/// seconds) a well-conditioned system (Moré 1978).
+fn scaling(jtj: &DMatrix<f64>) -> Vec<f64> {
+    (0..jtj.ncols()).map(|c| 1.0 / jtj[(c, c)].sqrt()).collect()
+}
+
+fn scaled(a: &DMatrix<f64>, sc: &[f64]) -> DMatrix<f64> {
+    DMatrix::from_fn(a.nrows(), a.ncols(), |r, c| a[(r, c)] * sc[r] * sc[c])
 }
 
 /// Fit `f` to `y` from the start `p0`.
@@ -55,15 +65,12 @@ pub fn fit_curve(f: &mut Model, x: &[f64], y: &[f64], p0: &[f64]) -> Result<Fit,
     }
     check_data("fit_curve", y, &[("x", x)], k)?;
     let n = y.len();
-    // A parameter that starts at zero is stepped on the scale of the others.
-    let scale = p0.iter().fold(0.0f64, |a, v| a.max(v.abs()));
-    let typical: Vec<f64> = p0.iter().map(|v| if *v != 0.0 { v.abs() } else { scale.max(1e-300) * 1e-3 }).collect();
+    let singular = || "fit_curve: the Jacobian is singular: some parameters are not determined by the data".to_string();
     let mut p = p0.to_vec();
     let mut m = eval(f, &p, n)?;
     let mut cost = ssr(y, &m);
     let mut lambda = 1e-3;
     let mut iterations = 0;
-    let mut j = jacobian(f, &p, &m, &typical)?;
     let yv = DVector::from_column_slice(y);
     loop {
         iterations += 1;
@@ -72,24 +79,31 @@ pub fn fit_curve(f: &mut Model, x: &[f64], y: &[f64], p0: &[f64]) -> Result<Fit,
                 "fit_curve: no convergence in {MAX_ITER} iterations (last parameters {p:?}); try a start p0 closer to the data"
             ));
         }
+        let j = jacobian(f, &p, &m)?;
         let r = &yv - DVector::from_column_slice(&m);
         let jtj = j.transpose() * &j;
         let g = j.transpose() * &r;
-        let diag: Vec<f64> = (0..k).map(|c| jtj[(c, c)].max(1e-300)).collect();
+        let sc = scaling(&jtj);
+        if sc.iter().any(|v| !v.is_finite()) {
+            return Err(singular());
+        }
+        let a0 = scaled(&jtj, &sc);
+        let gs = DVector::from_fn(k, |r, _| g[r] * sc[r]);
         // Inner loop: raise λ until a step lowers the cost.
+        let mut done = false;
         let mut improved = false;
-        let mut step_small = false;
         for _ in 0..60 {
-            let mut a = jtj.clone();
+            let mut a = a0.clone();
             for c in 0..k {
-                a[(c, c)] += lambda * diag[c];
+                a[(c, c)] += lambda;
             }
-            let Some(delta) = a.cholesky().map(|ch| ch.solve(&g)) else {
+            let Some(ds) = a.cholesky().map(|ch| ch.solve(&gs)) else {
                 lambda *= 10.0;
                 continue;
             };
+            let delta: Vec<f64> = (0..k).map(|c| ds[c] * sc[c]).collect();
             let q: Vec<f64> = (0..k).map(|c| p[c] + delta[c]).collect();
-            step_small = (0..k).all(|c| delta[c].abs() <= 1e-12 * (p[c].abs() + 1e-12 * typical[c]));
+            let tiny = (0..k).all(|c| delta[c].abs() <= 1e-12 * p[c].abs() || delta[c] == 0.0);
             let mq = match eval(f, &q, n) {
                 Ok(v) => v,
                 Err(_) if lambda < 1e12 => {
@@ -106,26 +120,26 @@ pub fn fit_curve(f: &mut Model, x: &[f64], y: &[f64], p0: &[f64]) -> Result<Fit,
                 cost = cq;
                 lambda = (lambda / 10.0).max(1e-12);
                 improved = true;
-                if rel < 1e-14 || step_small || cost == 0.0 {
-                    step_small = true;
-                }
+                done = rel < 1e-14 || tiny || cost == 0.0;
                 break;
             }
             lambda *= 10.0;
-            if step_small {
+            if tiny {
                 break;
             }
         }
-        if !improved || step_small {
+        if !improved || done {
             break;
         }
-        j = jacobian(f, &p, &m, &typical)?;
     }
-    let j = jacobian(f, &p, &m, &typical)?;
+    let j = jacobian(f, &p, &m)?;
     let jtj = j.transpose() * &j;
-    let inv = jtj
-        .try_inverse()
-        .ok_or("fit_curve: the Jacobian at the optimum is singular: some parameters are not determined by the data")?;
+    let sc = scaling(&jtj);
+    if sc.iter().any(|v| !v.is_finite()) {
+        return Err(singular());
+    }
+    let inv_s = scaled(&jtj, &sc).cholesky().ok_or_else(singular)?.inverse();
+    let inv = scaled(&inv_s, &sc);
     let residuals: Vec<f64> = (0..n).map(|i| y[i] - m[i]).collect();
     let names = (0..k).map(|c| format!("p{c}")).collect();
     summarise(names, p, &inv, y, residuals, true, iterations)
