@@ -91,15 +91,16 @@ impl Origin for ProcessOrigin {
     }
 }
 
-/// Parasitics every current-source topology built from a process carries: the switch
-/// junctions, the mirrors' output characteristic, and the capacitor's voltage coefficient if
-/// the process capacitor type has one.
-pub fn current_source_inherent(process: &Process, choices: &Choices) -> Vec<Parasitic> {
+/// Parasitics a current-source topology built from a process carries: the switch junctions,
+/// the mirrors' output characteristic, the capacitor's voltage coefficient if the process
+/// capacitor type has one, and the topology's own `more`.
+pub fn current_source_inherent(process: &Process, choices: &Choices, more: &[Parasitic]) -> Vec<Parasitic> {
     let ct = process.capacitor(&choices.cap_type).ok();
     let mut v = vec![Parasitic::SwitchCap, Parasitic::MirrorRout];
     if ct.is_some_and(|c| c.vc1 != 0.0 || c.vc2 != 0.0) {
         v.push(Parasitic::CapVc);
     }
+    v.extend_from_slice(more);
     v
 }
 

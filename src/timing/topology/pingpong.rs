@@ -45,9 +45,7 @@ impl Topology for PingPong {
         Ok(d.current_parts(mirrors, SwitchSet(vec![nsw, psw]), r_reset, (c.clone(), c), None))
     }
     fn inherent(&self, process: &Process, choices: &Choices) -> Vec<Parasitic> {
-        let mut v = current_source_inherent(process, choices);
-        v.extend([Parasitic::InputCap, Parasitic::CmpDelay, Parasitic::Reset]);
-        v
+        current_source_inherent(process, choices, &[Parasitic::InputCap, Parasitic::CmpDelay, Parasitic::Reset])
     }
     fn ideal_period(&self, o: &Osc) -> Result<f64, String> {
         ideal(o)

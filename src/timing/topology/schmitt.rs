@@ -88,7 +88,7 @@ impl Topology for Schmitt {
         Ok(d.current_parts(mirrors, SwitchSet(vec![nsw, psw]), 0.0, cmps, Some(levels)))
     }
     fn inherent(&self, process: &Process, choices: &Choices) -> Vec<Parasitic> {
-        current_source_inherent(process, choices)
+        current_source_inherent(process, choices, &[])
     }
     fn ideal_period(&self, o: &Osc) -> Result<f64, String> {
         two_level::ideal(o)

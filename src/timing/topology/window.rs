@@ -46,9 +46,7 @@ impl Topology for Window {
         Ok(d.current_parts(mirrors, SwitchSet(vec![nsw, psw]), 0.0, cmps, None))
     }
     fn inherent(&self, process: &Process, choices: &Choices) -> Vec<Parasitic> {
-        let mut v = current_source_inherent(process, choices);
-        v.extend([Parasitic::InputCap, Parasitic::CmpDelay]);
-        v
+        current_source_inherent(process, choices, &[Parasitic::InputCap, Parasitic::CmpDelay])
     }
     fn ideal_period(&self, o: &Osc) -> Result<f64, String> {
         two_level::ideal(o)
