@@ -29,6 +29,9 @@ impl SensRow {
     }
 }
 
+/// The period, the rows ranked, and the keys skipped with the reason.
+pub type Sensitivity = (f64, Vec<SensRow>, Vec<(&'static str, String)>);
+
 /// A relative step for the normalised derivative (common practice: about ε^(1/5) for a
 /// fourth-order central scheme whose function is accurate to ~1e-13).
 const REL_STEP: f64 = 1e-3;
@@ -83,7 +86,7 @@ pub fn numeric_keys(o: &Osc) -> Vec<(&'static str, f64)> {
 /// Sensitivities of the period with every parasitic, ranked by contribution (largest first).
 /// Keys whose neighbourhood the model rejects (a step out of range, a ramp that no longer
 /// ends) are returned separately with the reason.
-pub fn sensitivity(o: &Osc) -> Result<(f64, Vec<SensRow>, Vec<(&'static str, String)>), String> {
+pub fn sensitivity(o: &Osc) -> Result<Sensitivity, String> {
     let t0 = o.period()?;
     let mut rows = Vec::new();
     let mut skipped = Vec::new();

@@ -111,7 +111,7 @@ fn coefficient_map(c: Coefficient, x_name: &str, scale: f64, unit: &str) -> Map 
     let mut m = Map::new();
     m.insert(x_name.into(), Dynamic::from(Series::from(c.x)));
     m.insert("period".into(), Dynamic::from(Series::from(c.period)));
-    m.insert(format!("{unit}").into(), f(c.box_coeff * scale));
+    m.insert(unit.into(), f(c.box_coeff * scale));
     m.insert(format!("slope_{unit}").into(), f(c.slope * scale));
     m.insert(if x_name == "temp" { "period_27".into() } else { "period_nominal".into() }, f(c.nominal));
     m
@@ -211,7 +211,7 @@ pub fn register(engine: &mut Engine) {
     engine.register_fn("tempco_cancel", |o: &mut Osc, key: &str, lo: Dynamic, hi: Dynamic| -> R<f64> {
         let lo = to_f64(&lo).map_err(|_| "tempco_cancel: 'lo' must be a number")?;
         let hi = to_f64(&hi).map_err(|_| "tempco_cancel: 'hi' must be a number")?;
-        if !(lo < hi) {
+        if lo.is_nan() || hi.is_nan() || lo >= hi {
             return Err(format!("tempco_cancel: need lo < hi, got {lo} and {hi}").into());
         }
         lift(cancel_tempco(o, key, Some((lo, hi))))
