@@ -1,8 +1,9 @@
 //! The integration tests, one binary: linking one test executable instead of two dozen keeps
 //! the test build short on small machines. Each module is one area; every external check names
 //! its source beside it.
-mod cli_util;
+mod architecture;
 mod bad_input;
+mod cli_util;
 mod docs_coverage;
 mod engine_errors;
 mod engine_literals;
