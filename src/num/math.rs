@@ -70,8 +70,9 @@ pub fn atan(x: f64) -> f64 {
     libm::atan(x)
 }
 
-const LN2_HI: f64 = 6.931_471_803_691_238_2e-1; // upper bits of ln 2 (fdlibm's split)
-const LN2_LO: f64 = 1.908_214_929_270_587_7e-10;
+/// ln 2 split as fdlibm does: the upper part has its low 32 bits zero, so k·LN2_HI is exact.
+const LN2_HI: f64 = f64::from_bits(0x3fe6_2e42_fee0_0000);
+const LN2_LO: f64 = f64::from_bits(0x3dea_39ef_3579_3c76);
 const INV_LN2: f64 = std::f64::consts::LOG2_E;
 /// 1.5·2^52: adding it rounds to an integer held in the low mantissa bits (round to even).
 const SHIFT: f64 = 6_755_399_441_055_744.0;

@@ -22,6 +22,7 @@ mod report_markdown;
 mod report_plot;
 mod report_run;
 mod series_math;
+mod stdlib_modules;
 mod timing_process;
 mod timing_properties;
 mod timing_references;
