@@ -1,21 +1,30 @@
-//! Topology kinds and their parameter keys: units, defaults, ranges, and which parasitic each
+//! Topology kinds and the parameter keys: units, defaults, ranges, and which parasitic each
 //! key belongs to. A map with only the basic keys is the ideal circuit.
 use crate::num::si::eng_exact;
 use std::collections::BTreeMap;
 
 use super::parasitic::Parasitic;
+use super::topology::{ALL, Topology};
 
-/// The five relaxation topologies.
-#[derive(Clone, Copy, Debug, PartialEq, Eq)]
-pub enum Kind {
-    RcInverter,
-    Schmitt,
-    Window,
-    Reset,
-    PingPong,
+/// A topology, by its script-level name. What it does is its `Topology` in the list
+/// `topology::ALL`; the constants below name the built-in ones for Rust callers.
+#[derive(Clone, Copy, PartialEq, Eq)]
+pub struct Kind(&'static str);
+
+#[allow(non_upper_case_globals)]
+impl Kind {
+    pub const RcInverter: Kind = Kind("rc-inverter");
+    pub const Schmitt: Kind = Kind("schmitt");
+    pub const Window: Kind = Kind("window");
+    pub const Reset: Kind = Kind("reset");
+    pub const PingPong: Kind = Kind("pingpong");
 }
 
-pub const KINDS: [Kind; 5] = [Kind::RcInverter, Kind::Schmitt, Kind::Window, Kind::Reset, Kind::PingPong];
+impl std::fmt::Debug for Kind {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        write!(f, "Kind({})", self.0)
+    }
+}
 
 /// Where the parts come from: explicit numbers (`osc`) or the devices of a process (`osc_from`).
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -25,6 +34,18 @@ pub enum Mode {
 }
 
 impl Kind {
+    /// Every topology, in the order of the list.
+    pub fn all() -> impl Iterator<Item = Kind> {
+        ALL.iter().map(|t| Kind(t.name()))
+    }
+
+    /// The behaviour of this topology.
+    pub fn topology(self) -> &'static dyn Topology {
+        // A `Kind` is made only by `parse` (from the list) or by the constants above, which a
+        // unit test finds in the list.
+        ALL.iter().copied().find(|t| t.name() == self.0).expect("every Kind is in topology::ALL")
+    }
+
     /// How a script names this oscillator in messages: `osc("window")` for explicit numbers,
     /// `osc_from("window")` for process devices.
     pub fn caller(self, mode: Mode) -> String {
@@ -38,224 +59,22 @@ impl Kind {
     pub fn keys_for(self, mode: Mode) -> &'static [&'static str] {
         match mode {
             Mode::Explicit => self.keys(),
-            Mode::Process => match self {
-                Kind::RcInverter => &["c", "r", "vdd", "temp", "inv_wn", "inv_wp", "inv_l", "c_in", "vos", "t_logic"],
-                Kind::Schmitt => &[
-                    "c",
-                    "i",
-                    "vdd",
-                    "temp",
-                    "ratio_n",
-                    "ratio_p",
-                    "mirror_w",
-                    "mirror_l",
-                    "sw_w",
-                    "sw_l",
-                    "c_in",
-                    "i_mismatch",
-                    "vos_hi",
-                    "vos_lo",
-                    "t_cmp",
-                    "t_logic",
-                    "t_sw",
-                ],
-                Kind::Window => &[
-                    "c",
-                    "i",
-                    "v_lo",
-                    "v_hi",
-                    "vdd",
-                    "temp",
-                    "mirror_w",
-                    "mirror_l",
-                    "sw_w",
-                    "sw_l",
-                    "cmp_w",
-                    "cmp_l",
-                    "cmp_itail",
-                    "cmp_cload",
-                    "cmp_vsw",
-                    "t_cmp",
-                    "i_mismatch",
-                    "vos_hi",
-                    "vos_lo",
-                    "t_latch",
-                    "t_logic",
-                    "t_sw",
-                ],
-                Kind::Reset => &[
-                    "c",
-                    "i",
-                    "v_lo",
-                    "v_hi",
-                    "vdd",
-                    "temp",
-                    "mirror_w",
-                    "mirror_l",
-                    "sw_w",
-                    "sw_l",
-                    "cmp_w",
-                    "cmp_l",
-                    "cmp_itail",
-                    "cmp_cload",
-                    "cmp_vsw",
-                    "t_cmp",
-                    "vos",
-                    "t_logic",
-                    "t_reset",
-                ],
-                Kind::PingPong => &[
-                    "c",
-                    "i",
-                    "v_lo",
-                    "v_hi",
-                    "vdd",
-                    "temp",
-                    "mirror_w",
-                    "mirror_l",
-                    "sw_w",
-                    "sw_l",
-                    "cmp_w",
-                    "cmp_l",
-                    "cmp_itail",
-                    "cmp_cload",
-                    "cmp_vsw",
-                    "t_cmp",
-                    "vos",
-                    "c_mismatch",
-                    "t_latch",
-                    "t_logic",
-                    "t_sw",
-                ],
-            },
+            Mode::Process => self.topology().process_keys(),
         }
     }
 
     pub fn name(self) -> &'static str {
-        match self {
-            Kind::RcInverter => "rc-inverter",
-            Kind::Schmitt => "schmitt",
-            Kind::Window => "window",
-            Kind::Reset => "reset",
-            Kind::PingPong => "pingpong",
-        }
+        self.0
     }
     pub fn parse(s: &str) -> Result<Kind, String> {
-        KINDS.iter().copied().find(|k| k.name() == s).ok_or_else(|| {
-            let names: Vec<&str> = KINDS.iter().map(|k| k.name()).collect();
+        ALL.iter().find(|t| t.name() == s).map(|t| Kind(t.name())).ok_or_else(|| {
+            let names: Vec<&str> = ALL.iter().map(|t| t.name()).collect();
             format!("unknown oscillator kind '{s}'; kinds are: {}", names.join(", "))
         })
     }
     /// Keys this kind accepts, basic keys first.
     pub fn keys(self) -> &'static [&'static str] {
-        match self {
-            Kind::RcInverter => &[
-                "c", "r", "vdd", "temp", "v_th", "vtn", "vtp", "ratio_pn", "tc_vt", "tc_r", "tc_c", "r_vc", "c_in",
-                "vos", "t_logic",
-            ],
-            Kind::Schmitt => &[
-                "c",
-                "i",
-                "r",
-                "v_lo",
-                "v_hi",
-                "vdd",
-                "temp",
-                "vtn",
-                "vtp",
-                "ratio_n",
-                "ratio_p",
-                "tc_vt",
-                "tc_i",
-                "tc_r",
-                "tc_c",
-                "r_vc",
-                "c_vc1",
-                "c_vc2",
-                "c_swn",
-                "c_swp",
-                "sw_phi",
-                "sw_m",
-                "c_in",
-                "r_out",
-                "v_ds_ref",
-                "i_mismatch",
-                "vos_hi",
-                "vos_lo",
-                "t_cmp",
-                "cmp_gbw",
-                "cmp_a0",
-                "cmp_slew",
-                "cmp_vsw",
-                "t_logic",
-                "t_sw",
-            ],
-            Kind::Window => &[
-                "c",
-                "i",
-                "v_lo",
-                "v_hi",
-                "vdd",
-                "temp",
-                "tc_i",
-                "tc_c",
-                "c_vc1",
-                "c_vc2",
-                "c_swn",
-                "c_swp",
-                "sw_phi",
-                "sw_m",
-                "c_in",
-                "r_out",
-                "v_ds_ref",
-                "i_mismatch",
-                "vos_hi",
-                "vos_lo",
-                "t_cmp",
-                "cmp_gbw",
-                "cmp_a0",
-                "cmp_slew",
-                "cmp_vsw",
-                "t_latch",
-                "t_logic",
-                "t_sw",
-            ],
-            Kind::Reset => &[
-                "c", "i", "v_lo", "v_hi", "vdd", "temp", "tc_i", "tc_c", "c_vc1", "c_vc2", "c_swn", "c_swp", "sw_phi",
-                "sw_m", "c_in", "r_out", "v_ds_ref", "vos", "t_cmp", "cmp_gbw", "cmp_a0", "cmp_slew", "cmp_vsw",
-                "t_logic", "t_reset", "r_reset",
-            ],
-            Kind::PingPong => &[
-                "c",
-                "i",
-                "v_lo",
-                "v_hi",
-                "vdd",
-                "temp",
-                "tc_i",
-                "tc_c",
-                "c_vc1",
-                "c_vc2",
-                "c_swn",
-                "c_swp",
-                "sw_phi",
-                "sw_m",
-                "c_in",
-                "r_out",
-                "v_ds_ref",
-                "c_mismatch",
-                "vos",
-                "t_cmp",
-                "cmp_gbw",
-                "cmp_a0",
-                "cmp_slew",
-                "cmp_vsw",
-                "t_latch",
-                "t_logic",
-                "t_sw",
-                "r_reset",
-            ],
-        }
+        self.topology().keys()
     }
     /// The parasitics of this kind, in the order of the sequential build-up of the budget
     /// (parts of the ramp first, then the comparator and delay chain).
@@ -490,67 +309,13 @@ impl Params {
     }
 
     fn check_required(&self) -> Result<(), String> {
-        let need = |k: &str| -> Result<(), String> {
-            if self.has(k) { Ok(()) } else { Err(format!("key '{k}' is required")) }
-        };
-        need("c")?;
-        match self.kind {
-            Kind::RcInverter => {
-                need("r")?;
-                if self.has("v_th") && (self.has("vtn") || self.has("vtp")) {
-                    return Err("give the threshold either as 'v_th' or through 'vtn'/'vtp', not both".to_string());
-                }
-                if self.has("vtn") != self.has("vtp") {
-                    return Err("'vtn' and 'vtp' go together".to_string());
-                }
-            }
-            Kind::Window => {
-                need("i")?;
-                need("v_lo")?;
-                need("v_hi")?;
-            }
-            Kind::Reset | Kind::PingPong => {
-                need("i")?;
-                need("v_hi")?;
-            }
-            Kind::Schmitt => {
-                match (self.has("i"), self.has("r")) {
-                    (true, true) => return Err("give either 'i' (current-starved) or 'r' (RC), not both".to_string()),
-                    (false, false) => return Err("key 'i' (current-starved) or 'r' (RC) is required".to_string()),
-                    _ => {}
-                }
-                let explicit = self.has("v_lo") || self.has("v_hi");
-                let derived = self.has("vtn") || self.has("vtp");
-                if self.mode == Mode::Process {
-                    need("i")?;
-                    return Ok(());
-                }
-                if explicit && derived {
-                    return Err(
-                        "give the thresholds either as 'v_lo'/'v_hi' or through 'vtn'/'vtp', not both".to_string()
-                    );
-                }
-                if derived {
-                    need("vtn")?;
-                    need("vtp")?;
-                } else {
-                    need("v_lo")?;
-                    need("v_hi")?;
-                }
-                if self.has("r") {
-                    for k in ["r_out", "i_mismatch", "c_swn", "c_swp", "tc_i"] {
-                        if self.has(k) {
-                            return Err(format!(
-                                "key '{k}' applies to current charging ('i'), not to RC charging ('r')"
-                            ));
-                        }
-                    }
-                } else if self.has("tc_r") {
-                    return Err("key 'tc_r' applies to RC charging ('r'), not to current charging ('i')".to_string());
-                }
-            }
-        }
-        Ok(())
+        self.need("c")?;
+        self.kind.topology().check_required(self)
+    }
+
+    /// An error naming `key` unless it was given.
+    pub fn need(&self, key: &str) -> Result<(), String> {
+        if self.has(key) { Ok(()) } else { Err(format!("key '{key}' is required")) }
     }
 
     pub fn has(&self, key: &str) -> bool {

@@ -5,7 +5,6 @@ use super::env::Env;
 use super::keys::{Kind, Mode, Params};
 use super::parasitic::{Mask, Parasitic};
 use super::parts::Parts;
-use super::topology;
 
 /// Where the parts come from: explicit numbers, or the devices of a process.
 pub trait Origin: Send + Sync {
@@ -32,7 +31,7 @@ impl Origin for Explicit {
         Mode::Explicit
     }
     fn build(&self, p: &Params, _corner: &str) -> Result<Parts, String> {
-        Parts::explicit(p)
+        p.kind.topology().explicit_parts(p)
     }
     fn corners(&self) -> Vec<String> {
         vec!["typical".into()]
@@ -189,12 +188,13 @@ impl Osc {
 
     /// The textbook period of the topology from its basic keys.
     pub fn ideal_period(&self) -> Result<f64, String> {
-        topology::ideal_period(self).map_err(|e| format!("{}: {e}", self.caller()))
+        self.kind().topology().ideal_period(self).map_err(|e| format!("{}: {e}", self.caller()))
     }
 
     /// The cycle in periodic steady state with the parasitics of `mask` switched on.
     pub fn cycle(&self, mask: Mask) -> Result<Cycle, String> {
-        let c = topology::cycle(&View { o: self, m: mask, env: &self.env }).map_err(|e| self.explain(e))?;
+        let c =
+            self.kind().topology().cycle(&View { o: self, m: mask, env: &self.env }).map_err(|e| self.explain(e))?;
         if !(c.period > 0.0 && c.period.is_finite()) {
             return Err(format!("{}: the period came out as {} s", self.caller(), c.period));
         }
@@ -238,13 +238,7 @@ impl Osc {
                 return Err(format!("'v_hi' = {hi} V must not exceed 'vdd' = {vdd} V"));
             }
         }
-        if self.kind() == Kind::RcInverter && p.has("v_th") && p.get("v_th") >= vdd {
-            return Err(format!("'v_th' = {} V must lie in (0, vdd = {vdd} V)", p.get("v_th")));
-        }
-        if self.kind() == Kind::Reset && p.get("r_reset") > 0.0 && p.get("t_reset") == 0.0 {
-            return Err("'r_reset' > 0 needs a reset pulse 't_reset' > 0 to discharge the capacitor".to_string());
-        }
-        Ok(())
+        self.kind().topology().check(self)
     }
 }
 

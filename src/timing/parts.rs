@@ -7,7 +7,7 @@ use std::fmt::Debug;
 use std::sync::Arc;
 
 use super::env::Env;
-use super::keys::{Kind, Params};
+use super::keys::Params;
 use crate::physics::capacitor::Capacitor;
 use crate::physics::comparator::{Comparator, ComparatorSpec};
 use crate::physics::junction::junction_cap;
@@ -70,8 +70,10 @@ pub struct Parts {
 }
 
 impl Parts {
-    /// Parts made from the explicit numbers of `p`.
-    pub fn explicit(p: &Params) -> Result<Parts, String> {
+    /// Parts made from the explicit numbers of `p`; the comparators read the offset keys
+    /// `(high, low)`, and the low one carries `c_in` too if `c_in_lo` (two comparators on the
+    /// node; a single trigger or inverter counts its input once, on the high one).
+    pub fn explicit(p: &Params, (hi, lo): (&str, &str), c_in_lo: bool) -> Result<Parts, String> {
         let i = p.get("i");
         let mirror = |high_side: bool, scale: f64| MirrorOut {
             i: i * scale,
@@ -80,12 +82,7 @@ impl Parts {
             v_ds_ref: p.get("v_ds_ref"),
             high_side,
         };
-        let (hi, lo) = match p.kind {
-            Kind::Window | Kind::Schmitt => ("vos_hi", "vos_lo"),
-            _ => ("vos", "vos"),
-        };
-        // The Schmitt trigger is one element: its input capacitance is counted once (on cmp_hi).
-        let c_in_lo = if p.kind == Kind::Window { p.get("c_in") } else { 0.0 };
+        let c_in_lo = if c_in_lo { p.get("c_in") } else { 0.0 };
         Ok(Parts {
             cap: Arc::new(Capacitor::new(
                 p.get("c"),

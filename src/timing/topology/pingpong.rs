@@ -2,11 +2,61 @@
 //! level to the reference while the other is reset; one comparator, one reference.
 use std::rc::Rc;
 
+use super::super::from_process::{Choices, Devices, current_source_inherent};
+use super::super::keys::Params;
 use super::super::osc::{Cycle, Osc, View};
 use super::super::parasitic::Parasitic;
+use super::super::parts::{Parts, SwitchSet};
 use super::super::ramp::{advance, steady};
+use super::super::transient::circuit::{Circuit, End, Phase, rate, zero};
 use super::reset::{ideal_args, v_reset};
-use super::{NodeFn, check_rails, ramp_phase};
+use super::{NodeFn, Topology, check_rails, ramp_phase};
+use crate::physics::process::Process;
+
+pub struct PingPong;
+
+impl Topology for PingPong {
+    fn name(&self) -> &'static str {
+        "pingpong"
+    }
+    fn keys(&self) -> &'static [&'static str] {
+        &[
+            "c", "i", "v_lo", "v_hi", "vdd", "temp", "tc_i", "tc_c", "c_vc1", "c_vc2", "c_swn", "c_swp", "sw_phi",
+            "sw_m", "c_in", "r_out", "v_ds_ref", "c_mismatch", "vos", "t_cmp", "cmp_gbw", "cmp_a0", "cmp_slew",
+            "cmp_vsw", "t_latch", "t_logic", "t_sw", "r_reset",
+        ]
+    }
+    fn process_keys(&self) -> &'static [&'static str] {
+        &[
+            "c", "i", "v_lo", "v_hi", "vdd", "temp", "mirror_w", "mirror_l", "sw_w", "sw_l", "cmp_w", "cmp_l",
+            "cmp_itail", "cmp_cload", "cmp_vsw", "t_cmp", "vos", "c_mismatch", "t_latch", "t_logic", "t_sw",
+        ]
+    }
+    fn check_required(&self, p: &Params) -> Result<(), String> {
+        p.need("i")?;
+        p.need("v_hi")
+    }
+    /// Each capacitor has its NMOS reset switch and PMOS charge switch; one comparator.
+    fn process_parts(&self, d: &Devices) -> Result<Parts, String> {
+        let mirrors = d.mirrors()?;
+        let (nsw, psw) = d.switches()?;
+        let r_reset = nsw.with_on(true).ron(d.v_lo());
+        let c = d.pair(d.p.get("v_hi"), "vos")?;
+        Ok(d.current_parts(mirrors, SwitchSet(vec![nsw, psw]), r_reset, (c.clone(), c), None))
+    }
+    fn inherent(&self, process: &Process, choices: &Choices) -> Vec<Parasitic> {
+        current_source_inherent(process, choices, &[Parasitic::InputCap, Parasitic::CmpDelay, Parasitic::Reset])
+    }
+    fn ideal_period(&self, o: &Osc) -> Result<f64, String> {
+        ideal(o)
+    }
+    fn cycle(&self, v: &View) -> Result<Cycle, String> {
+        cycle(v)
+    }
+    fn circuit<'a>(&self, v: &'a View<'_>) -> Result<Circuit<'a>, String> {
+        circuit(v)
+    }
+}
 
 /// Ideal period T = 2·C·(V_ref − V_reset)/I (common practice: two equal charge-balance ramps,
 /// instant reset of the idle capacitor).
@@ -93,4 +143,40 @@ pub fn cycle(v: &View) -> Result<Cycle, String> {
     };
     check_rails(&cy, v.env.vdd)?;
     Ok(cy)
+}
+
+/// Ping-pong oscillator, capacitors A (node 0) and B (node 1). Start: both at the reset level,
+/// A charging.
+fn circuit<'a>(v: &'a View<'_>) -> Result<Circuit<'a>, String> {
+    let n = node(v)?;
+    let (vl, r) = (n.vl, n.r_reset);
+    // The idle capacitor is discharged through the reset switch, or held by an ideal one.
+    let idle = |c: &NodeFn<'a>| if r > 0.0 { rate(&n.discharge, c) } else { zero() };
+    let chain = v.chain(true);
+    let phases = vec![
+        Phase {
+            name: "capacitor A",
+            rate: [rate(&n.up, &n.ca), idle(&n.cb_idle)],
+            end: End::Threshold { node: 0, level: n.vref, rising: true, cmp: Box::new(move |s| v.delay_hi(s)), chain },
+            jump: if r > 0.0 { None } else { Some(Box::new(move |[_, b]| [vl, b])) },
+            no_early_trip: None,
+            rest: if r > 0.0 { Some((1, vl)) } else { None },
+        },
+        Phase {
+            name: "capacitor B",
+            rate: [idle(&n.ca_idle), rate(&n.up, &n.cb)],
+            end: End::Threshold { node: 1, level: n.vref, rising: true, cmp: Box::new(move |s| v.delay_hi(s)), chain },
+            jump: if r > 0.0 { None } else { Some(Box::new(move |[a, _]| [a, vl])) },
+            no_early_trip: None,
+            rest: if r > 0.0 { Some((0, vl)) } else { None },
+        },
+    ];
+    Ok(Circuit {
+        phases,
+        start: [vl, vl],
+        nodes: 2,
+        node_names: ["capacitor A", "capacitor B"],
+        rails: Some((0.0, v.env.vdd)),
+        duty_phase: 0,
+    })
 }

@@ -3,11 +3,99 @@
 //! through R toward A until it crosses the inverter threshold.
 use std::rc::Rc;
 
+use std::sync::Arc;
+
 use super::super::env::T_REF_C;
+use super::super::from_process::{Choices, Devices};
+use super::super::keys::Params;
 use super::super::osc::{Cycle, Osc, View};
+use super::super::parasitic::Parasitic;
+use super::super::parts::{ComparatorPart, FixedComparator, MirrorOut, Parts, SwitchSet};
 use super::super::ramp::steady;
 use super::super::thresholds::inverter_vm;
-use super::{NodeFn, ramp_phase};
+use super::super::transient::circuit::{Circuit, End, Phase, rate, zero};
+use super::{NodeFn, Topology, ramp_phase};
+use crate::physics::mosfet::{Mos, MosType};
+use crate::physics::process::Process;
+use crate::physics::resistor::Resistor;
+
+pub struct RcInverter;
+
+impl Topology for RcInverter {
+    fn name(&self) -> &'static str {
+        "rc-inverter"
+    }
+    fn keys(&self) -> &'static [&'static str] {
+        &[
+            "c", "r", "vdd", "temp", "v_th", "vtn", "vtp", "ratio_pn", "tc_vt", "tc_r", "tc_c", "r_vc", "c_in", "vos",
+            "t_logic",
+        ]
+    }
+    fn process_keys(&self) -> &'static [&'static str] {
+        &["c", "r", "vdd", "temp", "inv_wn", "inv_wp", "inv_l", "c_in", "vos", "t_logic"]
+    }
+    fn check_required(&self, p: &Params) -> Result<(), String> {
+        p.need("r")?;
+        if p.has("v_th") && (p.has("vtn") || p.has("vtp")) {
+            return Err("give the threshold either as 'v_th' or through 'vtn'/'vtp', not both".to_string());
+        }
+        if p.has("vtn") != p.has("vtp") {
+            return Err("'vtn' and 'vtp' go together".to_string());
+        }
+        Ok(())
+    }
+    fn check(&self, o: &Osc) -> Result<(), String> {
+        let (p, vdd) = (&o.params, o.env.vdd);
+        if p.has("v_th") && p.get("v_th") >= vdd {
+            return Err(format!("'v_th' = {} V must lie in (0, vdd = {vdd} V)", p.get("v_th")));
+        }
+        Ok(())
+    }
+    fn check_choices(&self, process: &Process, choices: &Choices) -> Result<(), String> {
+        process.resistor(&choices.res_type).map(|_| ())
+    }
+    /// The timing resistor of a process layer, the inverter threshold from the process devices
+    /// at the operating temperature and supply.
+    fn process_parts(&self, d: &Devices) -> Result<Parts, String> {
+        let (pr, p) = (d.pr, d.p);
+        let ly = pr.resistor(&d.choices.res_type)?;
+        let res = Resistor::new(p.get("r") * pr.res_scale, ly.tc1, ly.tc2, ly.vc, pr.tnom)
+            .map_err(|e| format!("osc_from(\"rc-inverter\"): resistor: {e}"))?;
+        let temp = p.get("temp");
+        let n = Mos::from_process(pr, MosType::N, p.get("inv_wn"), p.get("inv_l"))?;
+        let pm = Mos::from_process(pr, MosType::P, p.get("inv_wp"), p.get("inv_l"))?;
+        let v_th = inverter_vm(pr.vdd, n.vt(temp), pm.vt(temp), pm.beta(temp) / n.beta(temp));
+        let cmp: Arc<dyn ComparatorPart> =
+            Arc::new(FixedComparator { vos: p.get("vos"), c_in: p.get("c_in"), t0: 0.0 });
+        // The RC astable has no current sources; ideal placeholders keep the parts complete.
+        let none = Arc::new(MirrorOut { i: 0.0, tc: 0.0, r_out: f64::INFINITY, v_ds_ref: 0.0, high_side: true });
+        Ok(Parts {
+            cap: Arc::new(d.cap.clone()),
+            node: Arc::new(SwitchSet(vec![])),
+            charge: none.clone(),
+            discharge: none,
+            cmp_hi: cmp.clone(),
+            cmp_lo: cmp,
+            r_reset: 0.0,
+            levels: None,
+            res: Some(res),
+            v_th: Some(v_th),
+        })
+    }
+    fn inherent(&self, process: &Process, choices: &Choices) -> Vec<Parasitic> {
+        let vc = process.resistor(&choices.res_type).map(|l| l.vc).unwrap_or(0.0);
+        if vc != 0.0 { vec![Parasitic::ResVc] } else { vec![] }
+    }
+    fn ideal_period(&self, o: &Osc) -> Result<f64, String> {
+        ideal(o)
+    }
+    fn cycle(&self, v: &View) -> Result<Cycle, String> {
+        cycle(v)
+    }
+    fn circuit<'a>(&self, v: &'a View<'_>) -> Result<Circuit<'a>, String> {
+        circuit(v)
+    }
+}
 
 /// Ideal period with inverter threshold V_T: T = RC·[ln((V_DD + V_T)/V_T) + ln((2·V_DD − V_T)/(V_DD − V_T))],
 /// 2·ln 3·RC ≈ 2.2·RC at V_T = V_DD/2 (textbook CMOS two-inverter astable, first-order RC
@@ -101,4 +189,31 @@ pub fn cycle(v: &View) -> Result<Cycle, String> {
         phases: vec![a, b],
         iterations,
     })
+}
+
+/// Two-inverter RC astable, node X (input of the first inverter). Start: the timing capacitor
+/// discharged with B high, so X = vdd, falling.
+fn circuit<'a>(v: &'a View<'_>) -> Result<Circuit<'a>, String> {
+    let n = node(v)?;
+    let chain = v.chain(false);
+    let (down, up) = (n.kick.clone(), n.kick.clone());
+    let phases = vec![
+        Phase {
+            name: "X falls (A low)",
+            rate: [rate(&n.fall, &n.c), zero()],
+            end: End::Threshold { node: 0, level: n.vt, rising: false, cmp: zero(), chain },
+            jump: Some(Box::new(move |[x, y]| [x - down(x), y])),
+            no_early_trip: None,
+            rest: None,
+        },
+        Phase {
+            name: "X rises (A high)",
+            rate: [rate(&n.rise, &n.c), zero()],
+            end: End::Threshold { node: 0, level: n.vt, rising: true, cmp: zero(), chain },
+            jump: Some(Box::new(move |[x, y]| [x + up(x), y])),
+            no_early_trip: None,
+            rest: None,
+        },
+    ];
+    Ok(Circuit { phases, start: [v.env.vdd, 0.0], nodes: 1, node_names: ["X", ""], rails: None, duty_phase: 0 })
 }

@@ -2,10 +2,70 @@
 //! then reset by a switch; the finite reset pulse and switch resistance are parasitics.
 use std::rc::Rc;
 
+use super::super::from_process::{Choices, Devices, current_source_inherent};
+use super::super::keys::Params;
 use super::super::osc::{Cycle, Osc, PhaseTiming, View};
 use super::super::parasitic::Parasitic;
+use super::super::parts::{Parts, SwitchSet};
 use super::super::ramp::{advance, steady};
-use super::{NodeFn, check_rails, ramp_phase};
+use super::super::transient::circuit::{Circuit, End, F, Phase, rate, zero};
+use super::{NodeFn, Topology, check_rails, ramp_phase};
+use crate::physics::process::Process;
+
+pub struct Reset;
+
+impl Topology for Reset {
+    fn name(&self) -> &'static str {
+        "reset"
+    }
+    fn keys(&self) -> &'static [&'static str] {
+        &[
+            "c", "i", "v_lo", "v_hi", "vdd", "temp", "tc_i", "tc_c", "c_vc1", "c_vc2", "c_swn", "c_swp", "sw_phi",
+            "sw_m", "c_in", "r_out", "v_ds_ref", "vos", "t_cmp", "cmp_gbw", "cmp_a0", "cmp_slew", "cmp_vsw",
+            "t_logic", "t_reset", "r_reset",
+        ]
+    }
+    fn process_keys(&self) -> &'static [&'static str] {
+        &[
+            "c", "i", "v_lo", "v_hi", "vdd", "temp", "mirror_w", "mirror_l", "sw_w", "sw_l", "cmp_w", "cmp_l",
+            "cmp_itail", "cmp_cload", "cmp_vsw", "t_cmp", "vos", "t_logic", "t_reset",
+        ]
+    }
+    fn check_required(&self, p: &Params) -> Result<(), String> {
+        p.need("i")?;
+        p.need("v_hi")
+    }
+    fn check(&self, o: &Osc) -> Result<(), String> {
+        let p = &o.params;
+        if p.get("r_reset") > 0.0 && p.get("t_reset") == 0.0 {
+            return Err("'r_reset' > 0 needs a reset pulse 't_reset' > 0 to discharge the capacitor".to_string());
+        }
+        Ok(())
+    }
+    /// One NMOS reset switch on the node; one comparator at the reference.
+    fn process_parts(&self, d: &Devices) -> Result<Parts, String> {
+        let mirrors = d.mirrors()?;
+        let (nsw, _) = d.switches()?;
+        let r_reset = nsw.with_on(true).ron(d.v_lo());
+        if d.p.get("t_reset") <= 0.0 {
+            return Err("osc_from(\"reset\"): key 't_reset' (the reset pulse, s) is required: a process reset switch has a finite on-resistance".into());
+        }
+        let c = d.pair(d.p.get("v_hi"), "vos")?;
+        Ok(d.current_parts(mirrors, SwitchSet(vec![nsw]), r_reset, (c.clone(), c), None))
+    }
+    fn inherent(&self, process: &Process, choices: &Choices) -> Vec<Parasitic> {
+        current_source_inherent(process, choices, &[Parasitic::InputCap, Parasitic::CmpDelay, Parasitic::Reset])
+    }
+    fn ideal_period(&self, o: &Osc) -> Result<f64, String> {
+        ideal(o)
+    }
+    fn cycle(&self, v: &View) -> Result<Cycle, String> {
+        cycle(v)
+    }
+    fn circuit<'a>(&self, v: &'a View<'_>) -> Result<Circuit<'a>, String> {
+        circuit(v)
+    }
+}
 
 /// Ideal period T = C·(V_ref − V_reset)/I (common practice: charge balance, instant reset).
 pub fn ideal_formula(c: f64, i: f64, v_reset: f64, v_ref: f64) -> f64 {
@@ -101,4 +161,47 @@ pub fn cycle(v: &View) -> Result<Cycle, String> {
     };
     check_rails(&cy, v.env.vdd)?;
     Ok(cy)
+}
+
+/// Charge-and-reset oscillator. Start: the node at the reset level, charging.
+fn circuit<'a>(v: &'a View<'_>) -> Result<Circuit<'a>, String> {
+    let n = node(v)?;
+    let vl = n.vl;
+    // An ideal switch sets the node to the reset level at once and holds it there; a resistive
+    // one discharges it while the source keeps feeding it.
+    let during: F<'a> = if n.r_reset > 0.0 { rate(&n.during, &n.c) } else { zero() };
+    let phases = vec![
+        Phase {
+            name: "charge",
+            rate: [rate(&n.up, &n.c), zero()],
+            end: End::Threshold {
+                node: 0,
+                level: n.vref,
+                rising: true,
+                cmp: Box::new(move |s| v.delay_hi(s)),
+                chain: v.chain(false),
+            },
+            jump: if n.r_reset > 0.0 { None } else { Some(Box::new(move |[_, y]| [vl, y])) },
+            no_early_trip: Some(
+                "the charge phase starts at or above its threshold: the reset pulse is too short or its switch too weak (or the start voltage v0 is above the threshold)",
+            ),
+            rest: None,
+        },
+        Phase {
+            name: "reset",
+            rate: [during, zero()],
+            end: End::Timed(n.t_reset),
+            jump: None,
+            no_early_trip: None,
+            rest: None,
+        },
+    ];
+    Ok(Circuit {
+        phases,
+        start: [vl, 0.0],
+        nodes: 1,
+        node_names: ["node", ""],
+        rails: Some((0.0, v.env.vdd)),
+        duty_phase: 1,
+    })
 }

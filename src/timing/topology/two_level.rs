@@ -1,11 +1,12 @@
-//! Two-threshold oscillators on one capacitor: the window comparator oscillator (two
-//! comparators, SR latch) and the Schmitt-trigger oscillator (current-starved, or RC).
+//! What the two-threshold oscillators on one capacitor share (the window comparator oscillator,
+//! `window.rs`, and the Schmitt-trigger oscillator, `schmitt.rs`): thresholds, the node, the
+//! cycle and the transient circuit.
 use std::rc::Rc;
 
-use super::super::keys::Kind;
 use super::super::osc::{Cycle, Osc, View};
 use super::super::ramp::steady;
 use super::super::thresholds::schmitt_cmos;
+use super::super::transient::circuit::{Circuit, End, Phase, rate, zero};
 use super::{NodeFn, check_rails, ramp_phase};
 
 /// Ideal window / current-starved Schmitt oscillator: T = 2·C·(V_hi − V_lo)/I (common practice:
@@ -27,7 +28,7 @@ pub fn thresholds(o: &Osc) -> (f64, f64) {
     let p = &o.params;
     if let Some(l) = o.parts.levels {
         l
-    } else if o.kind() == Kind::Schmitt && p.has("vtn") {
+    } else if p.has("vtn") {
         let dt = p.get("tc_vt") * (o.env.temp_c - super::super::env::T_REF_C);
         schmitt_cmos(o.env.vdd, p.get("vtn") + dt, p.get("vtp") + dt, p.get("ratio_n"), p.get("ratio_p"))
     } else {
@@ -35,8 +36,9 @@ pub fn thresholds(o: &Osc) -> (f64, f64) {
     }
 }
 
+/// Charged through the timing resistor (the RC Schmitt trigger) rather than by current sources.
 pub(crate) fn rc_mode(o: &Osc) -> bool {
-    o.kind() == Kind::Schmitt && o.params.has("r")
+    o.params.has("r")
 }
 
 /// The timing resistor at zero volts, Ω.
@@ -84,7 +86,8 @@ pub(crate) struct Node<'a> {
     pub rc: bool,
 }
 
-pub(crate) fn node<'a>(v: &'a View<'_>) -> Result<Node<'a>, String> {
+/// `latch`: an SR latch sits in the delay chain (the window oscillator).
+pub(crate) fn node<'a>(v: &'a View<'_>, latch: bool) -> Result<Node<'a>, String> {
     let o = v.o;
     let (lo0, hi0) = thresholds(o);
     let (lo, hi) = (lo0 + v.vos_lo(), hi0 + v.vos_hi());
@@ -97,13 +100,13 @@ pub(crate) fn node<'a>(v: &'a View<'_>) -> Result<Node<'a>, String> {
         c: Rc::new(move |x| v.cap(x) + v.node(x) + v.cin_hi(x) + v.cin_lo(x)),
         up: Rc::new(move |x| if rc { (vdd - x) / v.res(vdd - x) } else { v.i_ch(x) }),
         dn: Rc::new(move |x| if rc { -x / v.res(x) } else { -v.i_dis(x) }),
-        latch: o.kind() == Kind::Window,
+        latch,
         rc,
     })
 }
 
-pub fn cycle(v: &View) -> Result<Cycle, String> {
-    let n = node(v)?;
+pub fn cycle(v: &View, latch: bool) -> Result<Cycle, String> {
+    let n = node(v, latch)?;
     let (lo, hi, rc, vdd) = (n.lo, n.hi, n.rc, v.env.vdd);
     let d_hi = |s: f64| v.delay_hi(s) + v.chain(n.latch);
     let d_lo = |s: f64| v.delay_lo(s) + v.chain(n.latch);
@@ -127,4 +130,48 @@ pub fn cycle(v: &View) -> Result<Cycle, String> {
         check_rails(&cy, vdd)?;
     }
     Ok(cy)
+}
+
+/// Window and Schmitt oscillators. Start: the node at the low threshold (with offset), charging.
+pub(crate) fn circuit<'a>(v: &'a View<'_>, latch: bool) -> Result<Circuit<'a>, String> {
+    let n = node(v, latch)?;
+    let vdd = v.env.vdd;
+    let phases = vec![
+        Phase {
+            name: "charge",
+            rate: [rate(&n.up, &n.c), zero()],
+            end: End::Threshold {
+                node: 0,
+                level: n.hi,
+                rising: true,
+                cmp: Box::new(move |s| v.delay_hi(s)),
+                chain: v.chain(n.latch),
+            },
+            jump: None,
+            no_early_trip: None,
+            rest: None,
+        },
+        Phase {
+            name: "discharge",
+            rate: [rate(&n.dn, &n.c), zero()],
+            end: End::Threshold {
+                node: 0,
+                level: n.lo,
+                rising: false,
+                cmp: Box::new(move |s| v.delay_lo(s)),
+                chain: v.chain(n.latch),
+            },
+            jump: None,
+            no_early_trip: None,
+            rest: None,
+        },
+    ];
+    Ok(Circuit {
+        phases,
+        start: [n.lo, 0.0],
+        nodes: 1,
+        node_names: ["node", ""],
+        rails: if n.rc { None } else { Some((0.0, vdd)) },
+        duty_phase: 0,
+    })
 }

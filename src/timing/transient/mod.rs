@@ -119,7 +119,7 @@ pub fn simulate_masked(o: &Osc, mask: Mask, cycles: usize, opts: &Options) -> Re
         return Err(format!("simulate: 'cycles' must be an integer in 1..={MAX_CYCLES}, got {cycles}"));
     }
     let view = View { o, m: mask, env: &o.env };
-    let mut c = circuit::build(&view).map_err(|e| format!("{}: {e}", o.caller()))?;
+    let mut c = o.kind().topology().circuit(&view).map_err(|e| format!("{}: {e}", o.caller()))?;
     let n_ph = c.phases.len();
     let ppp = match opts.points_per_phase {
         Some(n) => {
