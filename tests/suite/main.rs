@@ -28,3 +28,4 @@ mod timing_properties;
 mod timing_references;
 mod timing_script;
 mod timing_transient;
+mod timing_variant;
