@@ -128,12 +128,7 @@ mod tests {
     use crate::timing::Kind;
 
     fn window(extra: &[(&str, f64)]) -> Osc {
-        let mut p: Vec<(String, f64)> = [("c", 1e-12), ("i", 1e-6), ("v_lo", 0.6), ("v_hi", 1.2)]
-            .iter()
-            .map(|(k, v)| (k.to_string(), *v))
-            .collect();
-        p.extend(extra.iter().map(|(k, v)| (k.to_string(), *v)));
-        Osc::new(Kind::Window, &p).unwrap()
+        crate::analysis::test_osc(Kind::Window, extra)
     }
 
     #[test]

@@ -2,7 +2,7 @@
 //! tempco-cancelling key value, jitter and phase noise.
 use rhai::{Array, Dynamic, Engine, Map};
 
-use super::docs::Doc;
+use super::api;
 use super::value::{R, lift, to_f64};
 use crate::analysis::jitter::{Jitter, accumulated, jitter};
 use crate::analysis::phase_noise::phase_noise;
@@ -10,54 +10,6 @@ use crate::analysis::sensitivity::sensitivity;
 use crate::analysis::tempco::{Coefficient, cancel_tempco, supply_sensitivity, tempco};
 use crate::num::Series;
 use crate::timing::Osc;
-
-pub const DOCS: &[Doc] = &[
-    Doc {
-        name: "sensitivity",
-        sig: "o.sensitivity() -> array of maps",
-        summary: "every numeric key of the oscillator, ranked by contribution: #{key, value, unit, normalised (∂ln T/∂ln p, or \"—\" where the nominal is 0 and for temp), dt_dp (∂T/∂p, s per unit of the key)}; a table(...) shows it; fourth-order finite differences of the period with every parasitic",
-    },
-    Doc {
-        name: "tempco",
-        sig: "o.tempco(#{t_min: °C, t_max: °C, n: int}) -> map",
-        summary: "period versus temperature: #{temp (Series, °C), period (Series, s), ppm_per_c (box method: (T_max − T_min)/(T(27 °C)·(t_max − t_min)), ppm/°C), slope_ppm_per_c (signed (1/T)·dT/dtemp at 27 °C), period_27 (s)}; defaults −40 … 125 °C, 34 points",
-    },
-    Doc {
-        name: "supply_sensitivity",
-        sig: "o.supply_sensitivity(#{v_min: V, v_max: V, n: int}) -> map",
-        summary: "period versus supply: #{vdd (Series, V), period (Series, s), pct_per_v (box method about the period at the oscillator's vdd, %/V), slope_pct_per_v (signed slope at its vdd, %/V)}; defaults vdd ± 0.2 V, 21 points",
-    },
-    Doc {
-        name: "tempco_cancel",
-        sig: "o.tempco_cancel(key: string) -> float",
-        summary: "the value of a key (e.g. \"tc_i\") for which the period's slope versus temperature at 27 °C is zero, searched inside the key's range (±0.01 for 1/K keys)",
-    },
-    Doc {
-        name: "tempco_cancel",
-        sig: "o.tempco_cancel(key: string, lo: float, hi: float) -> float",
-        summary: "as tempco_cancel(key), searched inside [lo, hi]",
-    },
-    Doc {
-        name: "jitter",
-        sig: "o.jitter() -> map",
-        summary: "period jitter from the noise keys (i_noise A/√Hz, vn_cmp V/√Hz over cmp_nbw Hz, vn_ref V rms; Abidi–Meyer ramp treatment): #{sigma_period, sigma_c2c (s), sigma_v (threshold σ, V), contributions #{current, threshold} (σ of the period from each alone, s), diffusion (s²/s), ramps (array of #{name, ramp, current, slope, sigma})}",
-    },
-    Doc {
-        name: "jitter",
-        sig: "o.jitter(#{cycles: Series|array, f_min: Hz}) -> map",
-        summary: "as o.jitter(), plus accumulated: σ of the N-th edge after a given one for each N in cycles (white sources and, with i_flicker_fc, the current's flicker noise above f_min, default 1 Hz), s",
-    },
-    Doc {
-        name: "phase_noise",
-        sig: "o.phase_noise(offsets: Series) -> map",
-        summary: "single-sideband phase noise from the jitter (Lorentzian of a diffusing phase, Demir et al. 2000): #{offset (Hz), l_dbc (dBc/Hz), bound_dbc (Navid–Lee–Dutton minimum 7.33·kT/P·(f0/f)², dBc/Hz), fom, fom_bound (dB), power (W), beats_bound, corner (Hz)}; power is the charge the ramps draw from the supply, vdd·Σ I·t_rise/T",
-    },
-    Doc {
-        name: "phase_noise",
-        sig: "o.phase_noise(offsets: Series, #{power: W}) -> map",
-        summary: "as o.phase_noise(offsets), with the figure of merit and the bound referred to this power",
-    },
-];
 
 fn f(x: f64) -> Dynamic {
     Dynamic::from_float(x)
@@ -191,52 +143,97 @@ fn phase_noise_map(o: &Osc, offsets: &Series, power: Option<f64>) -> R<Map> {
 }
 
 pub fn register(engine: &mut Engine) {
-    engine.register_fn("sensitivity", |o: &mut Osc| sensitivity_rows(o));
-    engine.register_fn("tempco", |o: &mut Osc, m: Map| -> R<Map> {
-        only(&m, "tempco", &["t_min", "t_max", "n"])?;
-        let lo = opt(&m, "tempco", "t_min", "°C", -40.0)?;
-        let hi = opt(&m, "tempco", "t_max", "°C", 125.0)?;
-        let n = count(&m, "tempco", 34)?;
-        Ok(coefficient_map(lift(tempco(o, lo, hi, n))?, "temp", 1e6, "ppm_per_c"))
-    });
-    engine.register_fn("supply_sensitivity", |o: &mut Osc, m: Map| -> R<Map> {
-        only(&m, "supply_sensitivity", &["v_min", "v_max", "n"])?;
-        let v = o.env.vdd;
-        let lo = opt(&m, "supply_sensitivity", "v_min", "V", v - 0.2)?;
-        let hi = opt(&m, "supply_sensitivity", "v_max", "V", v + 0.2)?;
-        let n = count(&m, "supply_sensitivity", 21)?;
-        Ok(coefficient_map(lift(supply_sensitivity(o, lo, hi, n))?, "vdd", 100.0, "pct_per_v"))
-    });
-    engine.register_fn("tempco_cancel", |o: &mut Osc, key: &str| -> R<f64> { lift(cancel_tempco(o, key, None)) });
-    engine.register_fn("tempco_cancel", |o: &mut Osc, key: &str, lo: Dynamic, hi: Dynamic| -> R<f64> {
-        let lo = to_f64(&lo).map_err(|_| "tempco_cancel: 'lo' must be a number")?;
-        let hi = to_f64(&hi).map_err(|_| "tempco_cancel: 'hi' must be a number")?;
-        if lo.is_nan() || hi.is_nan() || lo >= hi {
-            return Err(format!("tempco_cancel: need lo < hi, got {lo} and {hi}").into());
-        }
-        lift(cancel_tempco(o, key, Some((lo, hi))))
-    });
-    engine.register_fn("jitter", |o: &mut Osc| -> R<Map> { Ok(jitter_map(&lift(jitter(o))?)) });
-    engine.register_fn("jitter", |o: &mut Osc, m: Map| -> R<Map> {
-        only(&m, "jitter", &["cycles", "f_min"])?;
-        let j = lift(jitter(o))?;
-        let mut out = jitter_map(&j);
-        let f_min = opt(&m, "jitter", "f_min", "Hz", 1.0)?;
-        if !(f_min > 0.0 && f_min.is_finite()) {
-            return Err(format!("jitter: 'f_min' must be a positive frequency (Hz), got {f_min}").into());
-        }
-        if let Some(c) = m.get("cycles") {
-            let ns = cycles_list(c)?;
-            let acc: Series = ns.iter().map(|n| accumulated(&j, *n, f_min)).collect();
-            out.insert("cycles".into(), Dynamic::from(ns.iter().map(|n| *n as f64).collect::<Series>()));
-            out.insert("accumulated".into(), Dynamic::from(acc));
-        }
-        Ok(out)
-    });
-    engine.register_fn("phase_noise", |o: &mut Osc, offsets: Series| -> R<Map> { phase_noise_map(o, &offsets, None) });
-    engine.register_fn("phase_noise", |o: &mut Osc, offsets: Series, m: Map| -> R<Map> {
-        only(&m, "phase_noise", &["power"])?;
-        let p = opt(&m, "phase_noise", "power", "W", f64::NAN)?;
-        phase_noise_map(o, &offsets, Some(p))
-    });
+    api::fun(
+        engine,
+        "o.sensitivity() -> array",
+        "every numeric key of the oscillator, ranked by contribution: #{key, value, unit, normalised (∂ln T/∂ln p, or \"—\" where the nominal is 0 and for temp), dt_dp (∂T/∂p, s per unit of the key)}; a table(...) shows it; fourth-order finite differences of the period with every parasitic",
+        |o: &mut Osc| sensitivity_rows(o),
+    );
+    api::fun(
+        engine,
+        "o.tempco(#{t_min: °C, t_max: °C, n: int}) -> map",
+        "period versus temperature: #{temp (Series, °C), period (Series, s), ppm_per_c (box method: (T_max − T_min)/(T(27 °C)·(t_max − t_min)), ppm/°C), slope_ppm_per_c (signed (1/T)·dT/dtemp at 27 °C), period_27 (s)}; defaults −40 … 125 °C, 34 points",
+        |o: &mut Osc, m: Map| -> R<Map> {
+            only(&m, "tempco", &["t_min", "t_max", "n"])?;
+            let lo = opt(&m, "tempco", "t_min", "°C", -40.0)?;
+            let hi = opt(&m, "tempco", "t_max", "°C", 125.0)?;
+            let n = count(&m, "tempco", 34)?;
+            Ok(coefficient_map(lift(tempco(o, lo, hi, n))?, "temp", 1e6, "ppm_per_c"))
+        },
+    );
+    api::fun(
+        engine,
+        "o.supply_sensitivity(#{v_min: V, v_max: V, n: int}) -> map",
+        "period versus supply: #{vdd (Series, V), period (Series, s), pct_per_v (box method about the period at the oscillator's vdd, %/V), slope_pct_per_v (signed slope at its vdd, %/V)}; defaults vdd ± 0.2 V, 21 points",
+        |o: &mut Osc, m: Map| -> R<Map> {
+            only(&m, "supply_sensitivity", &["v_min", "v_max", "n"])?;
+            let v = o.env.vdd;
+            let lo = opt(&m, "supply_sensitivity", "v_min", "V", v - 0.2)?;
+            let hi = opt(&m, "supply_sensitivity", "v_max", "V", v + 0.2)?;
+            let n = count(&m, "supply_sensitivity", 21)?;
+            Ok(coefficient_map(lift(supply_sensitivity(o, lo, hi, n))?, "vdd", 100.0, "pct_per_v"))
+        },
+    );
+    api::fun(
+        engine,
+        "o.tempco_cancel(key: string) -> float",
+        "the value of a key (e.g. \"tc_i\") for which the period's slope versus temperature at 27 °C is zero, searched inside the key's range (±0.01 for 1/K keys)",
+        |o: &mut Osc, key: &str| -> R<f64> { lift(cancel_tempco(o, key, None)) },
+    );
+    api::fun(
+        engine,
+        "o.tempco_cancel(key: string, lo: float, hi: float) -> float",
+        "as tempco_cancel(key), searched inside [lo, hi]",
+        |o: &mut Osc, key: &str, lo: Dynamic, hi: Dynamic| -> R<f64> {
+            let lo = to_f64(&lo).map_err(|_| "tempco_cancel: 'lo' must be a number")?;
+            let hi = to_f64(&hi).map_err(|_| "tempco_cancel: 'hi' must be a number")?;
+            if lo.is_nan() || hi.is_nan() || lo >= hi {
+                return Err(format!("tempco_cancel: need lo < hi, got {lo} and {hi}").into());
+            }
+            lift(cancel_tempco(o, key, Some((lo, hi))))
+        },
+    );
+    api::fun(
+        engine,
+        "o.jitter() -> map",
+        "period jitter from the noise keys (i_noise A/√Hz, vn_cmp V/√Hz over cmp_nbw Hz, vn_ref V rms; Abidi–Meyer ramp treatment): #{sigma_period, sigma_c2c (s), sigma_v (threshold σ, V), contributions #{current, threshold} (σ of the period from each alone, s), diffusion (s²/s), ramps (array of #{name, ramp, current, slope, sigma})}",
+        |o: &mut Osc| -> R<Map> { Ok(jitter_map(&lift(jitter(o))?)) },
+    );
+    api::fun(
+        engine,
+        "o.jitter(#{cycles: Series|array, f_min: Hz}) -> map",
+        "as o.jitter(), plus accumulated: σ of the N-th edge after a given one for each N in cycles (white sources and, with i_flicker_fc, the current's flicker noise above f_min, default 1 Hz), s",
+        |o: &mut Osc, m: Map| -> R<Map> {
+            only(&m, "jitter", &["cycles", "f_min"])?;
+            let j = lift(jitter(o))?;
+            let mut out = jitter_map(&j);
+            let f_min = opt(&m, "jitter", "f_min", "Hz", 1.0)?;
+            if !(f_min > 0.0 && f_min.is_finite()) {
+                return Err(format!("jitter: 'f_min' must be a positive frequency (Hz), got {f_min}").into());
+            }
+            if let Some(c) = m.get("cycles") {
+                let ns = cycles_list(c)?;
+                let acc: Series = ns.iter().map(|n| accumulated(&j, *n, f_min)).collect();
+                out.insert("cycles".into(), Dynamic::from(ns.iter().map(|n| *n as f64).collect::<Series>()));
+                out.insert("accumulated".into(), Dynamic::from(acc));
+            }
+            Ok(out)
+        },
+    );
+    api::fun(
+        engine,
+        "o.phase_noise(offsets: Series) -> map",
+        "single-sideband phase noise from the jitter (Lorentzian of a diffusing phase, Demir et al. 2000): #{offset (Hz), l_dbc (dBc/Hz), bound_dbc (Navid–Lee–Dutton minimum 7.33·kT/P·(f0/f)², dBc/Hz), fom, fom_bound (dB), power (W), beats_bound, corner (Hz)}; power is the charge the ramps draw from the supply, vdd·Σ I·t_rise/T",
+        |o: &mut Osc, offsets: Series| -> R<Map> { phase_noise_map(o, &offsets, None) },
+    );
+    api::fun(
+        engine,
+        "o.phase_noise(offsets: Series, #{power: W}) -> map",
+        "as o.phase_noise(offsets), with the figure of merit and the bound referred to this power",
+        |o: &mut Osc, offsets: Series, m: Map| -> R<Map> {
+            only(&m, "phase_noise", &["power"])?;
+            let p = opt(&m, "phase_noise", "power", "W", f64::NAN)?;
+            phase_noise_map(o, &offsets, Some(p))
+        },
+    );
 }

@@ -2,30 +2,12 @@
 //! file recorded in the provenance), `fit_linear` and `fit_curve`.
 use rhai::{Array, Dynamic, Engine, FnPtr, Map, NativeCallContext};
 
-use super::docs::Doc;
+use super::api;
 use super::session::Shared;
 use super::value::{R, lift, to_f64};
 use crate::analysis::fit_curve::fit_curve;
 use crate::analysis::fit_linear::{Fit, fit_linear};
 use crate::num::Series;
-
-pub const DOCS: &[Doc] = &[
-    Doc {
-        name: "read_csv",
-        sig: "read_csv(path: string) -> map of Series",
-        summary: "a CSV file with a header line (path relative to the script, below the project root; lines starting with # are comments): one Series per column, by header name; every cell must be a number; recorded in the report's provenance",
-    },
-    Doc {
-        name: "fit_linear",
-        sig: "fit_linear(y: Series, #{terms: #{name: Series}, intercept: bool}) -> map",
-        summary: "linear least squares y ≈ intercept + Σ coef·term (SVD; intercept true by default): #{names, coef, stderr, lo, hi (95 % intervals; maps by name), residuals (Series), r2, sigma (residual σ), dof, rows (array of #{name, coef, stderr, lo, hi} for table)}",
-    },
-    Doc {
-        name: "fit_curve",
-        sig: "fit_curve(f: Fn(x: Series, p: array) -> Series, x: Series, y: Series, p0: array) -> map",
-        summary: "nonlinear least squares of a script model by Levenberg–Marquardt from the start p0: #{p (array), stderr, lo, hi (95 % intervals from the Jacobian at the optimum; arrays), residuals (Series), r2, sigma, dof, iterations, rows (for table)}",
-    },
-];
 
 /// A column name or data cell as the user wrote it, for messages.
 fn quoted(s: &str) -> String {
@@ -233,15 +215,28 @@ fn curve(ctx: &NativeCallContext, fp: &FnPtr, x: &Dynamic, y: &Dynamic, p0: &Arr
 
 pub fn register(engine: &mut Engine, session: &Shared) {
     let s = session.clone();
-    engine.register_fn("read_csv", move |path: &str| -> R<Map> {
-        let text = s.lock().read_input(path).map_err(|e| format!("read_csv: {e}"))?;
-        let cols = lift(parse_csv(&text, path))?;
-        Ok(cols.into_iter().map(|(n, v)| (n.into(), Dynamic::from(Series::from(v)))).collect())
-    });
-    engine.register_fn("fit_linear", |y: Dynamic, opts: Map| linear(&y, &opts));
-    engine.register_fn("fit_curve", |ctx: NativeCallContext, fp: FnPtr, x: Dynamic, y: Dynamic, p0: Array| {
-        curve(&ctx, &fp, &x, &y, &p0)
-    });
+    api::fun(
+        engine,
+        "read_csv(path: string) -> map",
+        "a CSV file with a header line (path relative to the script, below the project root; lines starting with # are comments): one Series per column, by header name; every cell must be a number; recorded in the report's provenance",
+        move |path: &str| -> R<Map> {
+            let text = s.lock().read_input(path).map_err(|e| format!("read_csv: {e}"))?;
+            let cols = lift(parse_csv(&text, path))?;
+            Ok(cols.into_iter().map(|(n, v)| (n.into(), Dynamic::from(Series::from(v)))).collect())
+        },
+    );
+    api::fun(
+        engine,
+        "fit_linear(y: Series, #{terms: map, intercept: bool}) -> map",
+        "linear least squares y ≈ intercept + Σ coef·term (SVD; intercept true by default): #{names, coef, stderr, lo, hi (95 % intervals; maps by name), residuals (Series), r2, sigma (residual σ), dof, rows (array of #{name, coef, stderr, lo, hi} for table)} Model y ≈ intercept + Σ coef·term with terms #{name: Series}.",
+        |y: Dynamic, opts: Map| linear(&y, &opts),
+    );
+    api::fun(
+        engine,
+        "fit_curve(f: fn, x: Series, y: Series, p0: array) -> map",
+        "nonlinear least squares of a script model by Levenberg–Marquardt from the start p0: #{p (array), stderr, lo, hi (95 % intervals from the Jacobian at the optimum; arrays), residuals (Series), r2, sigma, dof, iterations, rows (for table)} The model f(x: Series, p: array) returns a Series.",
+        |ctx: NativeCallContext, fp: FnPtr, x: Dynamic, y: Dynamic, p0: Array| curve(&ctx, &fp, &x, &y, &p0),
+    );
 }
 
 #[cfg(test)]

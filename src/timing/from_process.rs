@@ -81,6 +81,9 @@ impl Origin for ProcessOrigin {
     fn inherent(&self, p: &Params) -> Vec<Parasitic> {
         p.kind.topology().inherent(&self.process, &self.choices)
     }
+    fn on_process(&self, p: &Process) -> Result<Arc<dyn Origin>, String> {
+        Ok(Arc::new(ProcessOrigin { process: p.clone(), choices: self.choices.clone() }))
+    }
 
     fn build(&self, p: &Params, corner: &str) -> Result<Parts, String> {
         let pr = self.at(p, corner)?;

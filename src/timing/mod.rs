@@ -19,9 +19,11 @@ pub mod ramp;
 pub mod thresholds;
 pub mod topology;
 pub mod transient;
+pub mod variant;
 
 pub use budget::{Budget, BudgetRow};
 pub use env::Env;
 pub use keys::{Kind, Params};
 pub use osc::{Cycle, Osc, PhaseTiming};
 pub use parasitic::{Mask, Parasitic};
+pub use variant::Variant;

@@ -5,6 +5,7 @@ use super::env::Env;
 use super::keys::{Kind, Mode, Params};
 use super::parasitic::{Mask, Parasitic};
 use super::parts::Parts;
+use crate::physics::process::Process;
 
 /// Where the parts come from: explicit numbers, or the devices of a process.
 pub trait Origin: Send + Sync {
@@ -19,6 +20,8 @@ pub trait Origin: Send + Sync {
     fn corner_point(&self, corner: &str) -> Option<(f64, f64)>;
     /// Parasitics the parts carry whatever the keys say (physics-model parts).
     fn inherent(&self, p: &Params) -> Vec<Parasitic>;
+    /// The same origin on another process (the same name choices), if it has a process.
+    fn on_process(&self, p: &Process) -> Result<Arc<dyn Origin>, String>;
 }
 
 struct Explicit;
@@ -41,6 +44,9 @@ impl Origin for Explicit {
     }
     fn inherent(&self, _p: &Params) -> Vec<Parasitic> {
         vec![]
+    }
+    fn on_process(&self, _p: &Process) -> Result<Arc<dyn Origin>, String> {
+        Err("this oscillator is made of explicit numbers, not of a process's devices; use osc_from".into())
     }
 }
 
@@ -148,6 +154,18 @@ impl Osc {
     /// The same oscillator with some keys changed.
     pub fn with(&self, pairs: &[(String, f64)]) -> Result<Osc, String> {
         Osc::assemble(self.params.with(pairs)?, self.env.corner.clone(), self.origin.clone())
+    }
+
+    /// The same oscillator (kind, keys, name choices, corner) rebuilt on another process, e.g.
+    /// one whose parameters a Monte Carlo draw has moved.
+    pub fn on_process(&self, p: &Process) -> Result<Osc, String> {
+        let origin = self.origin.on_process(p).map_err(|e| format!("{}: {e}", self.caller()))?;
+        let known = origin.corners();
+        let corner = match known.first() {
+            Some(first) if !known.contains(&self.env.corner) => first.clone(),
+            _ => self.env.corner.clone(),
+        };
+        Osc::assemble(self.params.clone(), corner, origin)
     }
 
     /// The same oscillator at another temperature (°C), supply (V) and/or corner. A corner that

@@ -3,6 +3,7 @@
 //! its source beside it.
 mod analysis_fit;
 mod analysis_noise;
+mod architecture;
 mod bad_input;
 mod cli_util;
 mod docs_coverage;
@@ -23,9 +24,11 @@ mod report_markdown;
 mod report_plot;
 mod report_run;
 mod series_math;
+mod stdlib_modules;
 mod timing_noise;
 mod timing_process;
 mod timing_properties;
 mod timing_references;
 mod timing_script;
 mod timing_transient;
+mod timing_variant;

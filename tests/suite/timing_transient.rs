@@ -31,7 +31,7 @@ fn times(s: &Transient, kind: EventKind) -> Vec<f64> {
 }
 
 /// Every parasitic of every kind switched on, explicit numbers (invented, demo scale).
-fn explicit_full() -> Vec<Osc> {
+pub(crate) fn explicit_full() -> Vec<Osc> {
     let ramp = [
         ("c_vc1", 0.02),
         ("c_vc2", -0.005),
@@ -135,7 +135,7 @@ fn explicit_full() -> Vec<Osc> {
 
 /// The demo-process oscillators of scripts/02-period-budget.rhai and tests/timing_process.rs
 /// (invented sizes and delays).
-fn demo_full() -> Vec<Osc> {
+pub(crate) fn demo_full() -> Vec<Osc> {
     let common = [
         ("c", 250e-15),
         ("i", 1.2e-6),
@@ -157,7 +157,7 @@ fn demo_full() -> Vec<Osc> {
 
 /// Every oscillator of the cross-checks: full explicit parasitics, the demo process, and a
 /// ping-pong whose residual after a slow reset takes several cycles to settle.
-fn every() -> Vec<Osc> {
+pub(crate) fn every() -> Vec<Osc> {
     let mut v = explicit_full();
     v.extend(demo_full());
     v.push(osc(Kind::PingPong, &[("c", 1e-12), ("i", 1e-6), ("v_hi", 1.0), ("r_reset", 400e3), ("t_cmp", 3e-9)]));
