@@ -93,3 +93,14 @@ fn scalar_on_either_side_and_ints() {
     assert_eq!(x("(-x).sum() + x.sum()"), 0.0);
     assert_eq!(x("(10 - x)[0]"), 10.0 - 3.1);
 }
+
+#[test]
+fn script_maths_is_the_same_on_every_machine() {
+    // exp, ln and ** of floats and Series go through tickwork's pure-Rust maths (musl's libm),
+    // not the platform's: glibc gives 0.0067382165290940784 for this exp and
+    // -3.2256487091556294 for this ln (see num::math's tests).
+    assert_eq!(eval_f64("exp(-4.999959999)"), 0.006738216529094079);
+    assert_eq!(eval_f64("ln(0.039729999999999994)"), -3.22564870915563);
+    assert_eq!(eval_f64("pow(0.50011, -0.513)"), 1.4268534796598518);
+    assert_eq!(eval_f64("(series([0.50011]) ** -0.513)[0]"), 1.4268534796598518);
+}
