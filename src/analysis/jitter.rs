@@ -275,6 +275,17 @@ mod tests {
     }
 
     #[test]
+    fn flicker_closed_form_matches_quadrature() {
+        // ∫_a^∞ sin²u/u³ du by adaptive Gauss–Kronrod on [a, 400] plus the tail ≈ 1/(4·400²)
+        // (the oscillating part of the tail is below 1e-8), against the closed form.
+        for a in [std::f64::consts::PI * 1e-3, 0.3, 2.0] {
+            let body = integrate(|u: f64| u.sin().powi(2) / u.powi(3), a, 400.0, 1e-12).unwrap();
+            let want = body + 1.0 / (4.0 * 400.0 * 400.0);
+            assert!((sin2_over_u3(a) - want).abs() < 1e-7, "a = {a}: {} vs {want}", sin2_over_u3(a));
+        }
+    }
+
+    #[test]
     fn white_quadrature_is_half_h0_tau() {
         let v = white_variance_by_quadrature(2.0, 3.0).unwrap();
         assert!((v / 3.0 - 1.0).abs() < 1e-4, "{v}");
