@@ -1,3 +1,5 @@
+//! The `tickwork` command: parses the command line and hands it to `cli`; a panic is reported
+//! in one line as a bug, never as the user's fault.
 use clap::Parser;
 
 fn main() {

@@ -1,9 +1,10 @@
-//! `tickwork doc [NAME]` and `tickwork defs`.
+//! `tickwork doc [NAME]` and `tickwork defs`: views of the documentation that each function
+//! carries from its registration (`engine::docs`).
 use std::path::Path;
 
 use crate::engine::docs;
 
-/// Text describing `name` (all overloads), or None if it is not a documented function.
+/// Text describing `name` (all forms), or None if it is not a documented function.
 pub fn describe(name: &str) -> Option<String> {
     let found = docs::lookup(name);
     if found.is_empty() {
@@ -15,12 +16,16 @@ pub fn describe(name: &str) -> Option<String> {
 /// Names close to `name`, for a "did you mean" line.
 pub fn similar(name: &str) -> Vec<&'static str> {
     let mut v: Vec<&'static str> =
-        docs::all().iter().map(|d| d.name).filter(|n| n.contains(name) || name.contains(n)).collect();
+        docs::all().iter().map(|d| d.name.as_str()).filter(|n| n.contains(name) || name.contains(n)).collect();
     v.dedup();
     v
 }
 
-pub fn doc(name: Option<&str>) -> i32 {
+pub fn doc(name: Option<&str>, markdown: bool) -> i32 {
+    if markdown {
+        crate::engine::term::out(docs::markdown().trim_end());
+        return 0;
+    }
     match name {
         None => {
             for d in docs::all() {
@@ -45,26 +50,24 @@ pub fn doc(name: Option<&str>) -> i32 {
     }
 }
 
-/// Write every script function as JSON: the documented entries (signature with units,
-/// description) and the engine's full list of registered signatures, for editor tooling.
-pub fn defs(out: &Path) -> i32 {
-    let sandbox = match crate::engine::sandbox::Sandbox::new(Path::new("."), Path::new("."), Path::new(".")) {
-        Ok(s) => s,
-        Err(e) => {
-            eprintln!("{e}");
-            return super::EXIT_SCRIPT_ERROR;
-        }
-    };
-    let session = crate::engine::session::Shared::new(crate::engine::session::Session::new("defs", sandbox));
-    let engine = crate::engine::build(&session, crate::engine::DEFAULT_MAX_OPS);
-    let documented: Vec<serde_json::Value> = docs::all()
+/// The definitions as JSON: name, signature with units, summary, parameters and result with
+/// script-level types.
+fn json() -> String {
+    let functions: Vec<serde_json::Value> = docs::all()
         .iter()
-        .map(|d| serde_json::json!({"name": d.name, "signature": d.sig, "summary": d.summary}))
+        .map(|d| {
+            let params: Vec<serde_json::Value> =
+                d.params.iter().map(|(n, t)| serde_json::json!({"name": n, "type": t})).collect();
+            serde_json::json!({"name": d.name, "signature": d.sig, "summary": d.summary, "params": params, "result": d.result})
+        })
         .collect();
-    let mut registered = engine.gen_fn_signatures(false);
-    registered.sort();
-    let v = serde_json::json!({"tool": "tickwork", "version": env!("CARGO_PKG_VERSION"), "functions": documented, "registered": registered});
-    let text = serde_json::to_string_pretty(&v).unwrap_or_default() + "\n";
+    let v = serde_json::json!({"tool": "tickwork", "version": env!("CARGO_PKG_VERSION"), "functions": functions});
+    serde_json::to_string_pretty(&v).unwrap_or_default() + "\n"
+}
+
+/// Write the editor definition file (or JSON, for a `.json` name).
+pub fn defs(out: &Path) -> i32 {
+    let text = if out.extension().is_some_and(|e| e == "json") { json() } else { docs::definitions() };
     match crate::report::output::write_atomic(out, text.as_bytes()) {
         Ok(()) => {
             crate::engine::term::out(&format!("wrote {}", out.display()));

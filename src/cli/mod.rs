@@ -28,10 +28,16 @@ pub enum Cmd {
     /// Interactive session (reads a pipe too)
     Repl(repl::ReplArgs),
     /// Show the documentation of one function, or list all
-    Doc { name: Option<String> },
-    /// Write every script function's signature and description as JSON (for editors)
+    Doc {
+        name: Option<String>,
+        /// Print the whole reference as Markdown (the text of docs/functions.md)
+        #[arg(long, conflicts_with = "name")]
+        markdown: bool,
+    },
+    /// Write the editor definition file of every script function (script-level types)
     Defs {
-        #[arg(long, default_value = "tickwork-defs.json")]
+        /// Where to write it; a name ending in .json writes JSON instead of a definition file
+        #[arg(long, default_value = "tickwork.d.rhai")]
         out: PathBuf,
     },
 }
@@ -41,7 +47,7 @@ pub fn main(cli: Cli) -> i32 {
     match cli.cmd {
         Cmd::Run(a) => run::run(&a),
         Cmd::Repl(a) => repl::repl(&a),
-        Cmd::Doc { name } => docs_cmd::doc(name.as_deref()),
+        Cmd::Doc { name, markdown } => docs_cmd::doc(name.as_deref(), markdown),
         Cmd::Defs { out } => docs_cmd::defs(&out),
     }
 }

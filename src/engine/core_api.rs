@@ -1,57 +1,53 @@
 //! Core script functions: engineering formatting, section markers and `--set` overrides.
 use super::value::R;
+use crate::engine::api;
 use rhai::{Dynamic, Engine};
 
-use super::docs::Doc;
 use super::prepass::{OVERRIDE_FN, SECTION_FN};
 use super::session::Shared;
 use super::value::to_f64;
 use crate::num::si::{eng, parse_number};
 
-pub const DOCS: &[Doc] = &[
-    Doc {
-        name: "eng",
-        sig: "eng(x: float) -> string",
-        summary: "engineering notation with an SI prefix, 3 significant digits: eng(4700) → \"4.70k\"",
-    },
-    Doc {
-        name: "eng",
-        sig: "eng(x: float, unit: string) -> string",
-        summary: "with a unit: eng(3.33e-6, \"s\") → \"3.33 µs\"",
-    },
-    Doc {
-        name: "eng",
-        sig: "eng(x: float, unit: string, digits: int) -> string",
-        summary: "with a unit and 1..17 significant digits",
-    },
-    Doc {
-        name: "si",
-        sig: "si(text: string) -> float",
-        summary: "parse a number with an SI suffix: si(\"2.2pF\") → 2.2e-12",
-    },
-    Doc { name: "seed", sig: "seed() -> int", summary: "the run's random seed (--seed N, default 1)" },
-];
-
 pub fn register(engine: &mut Engine, shared: &Shared) {
     let x_of = |x: &Dynamic| -> R<f64> {
         to_f64(x).map_err(|_| format!("eng: x must be a number, found {}", x.type_name()).into())
     };
-    engine.register_fn("eng", move |x: Dynamic| -> R<String> { Ok(eng(x_of(&x)?, "", 3)) });
-    engine.register_fn("eng", move |x: Dynamic, unit: &str| -> R<String> { Ok(eng(x_of(&x)?, unit, 3)) });
-    engine.register_fn("eng", move |x: Dynamic, unit: &str, digits: i64| -> R<String> {
-        if !(1..=17).contains(&digits) {
-            return Err(format!("eng: digits must be in 1..=17, got {digits}").into());
-        }
-        Ok(eng(x_of(&x)?, unit, digits as usize))
-    });
+    api::fun(
+        engine,
+        "eng(x: float) -> string",
+        "engineering notation with an SI prefix, 3 significant digits: eng(4700) → \"4.70k\"",
+        move |x: Dynamic| -> R<String> { Ok(eng(x_of(&x)?, "", 3)) },
+    );
+    api::fun(
+        engine,
+        "eng(x: float, unit: string) -> string",
+        "with a unit: eng(3.33e-6, \"s\") → \"3.33 µs\"",
+        move |x: Dynamic, unit: &str| -> R<String> { Ok(eng(x_of(&x)?, unit, 3)) },
+    );
+    api::fun(
+        engine,
+        "eng(x: float, unit: string, digits: int) -> string",
+        "with a unit and 1..17 significant digits",
+        move |x: Dynamic, unit: &str, digits: i64| -> R<String> {
+            if !(1..=17).contains(&digits) {
+                return Err(format!("eng: digits must be in 1..=17, got {digits}").into());
+            }
+            Ok(eng(x_of(&x)?, unit, digits as usize))
+        },
+    );
     // Floats print in the shortest form that reads back exactly, with an exponent when very
     // small or large (2e-12, not 0.000000000002).
     engine.register_fn("to_string", |x: f64| format!("{x:?}"));
     engine.register_fn("to_debug", |x: f64| format!("{x:?}"));
-    engine.register_fn("si", |t: &str| -> R<f64> { parse_number(t).map_err(|e| e.into()) });
+    api::fun(
+        engine,
+        "si(text: string) -> float",
+        "parse a number with an SI suffix: si(\"2.2pF\") → 2.2e-12",
+        |t: &str| -> R<f64> { parse_number(t).map_err(|e| e.into()) },
+    );
 
     let s = shared.clone();
-    engine.register_fn("seed", move || s.lock().seed as i64);
+    api::fun(engine, "seed() -> int", "the run's random seed (--seed N, default 1)", move || s.lock().seed as i64);
 
     let s = shared.clone();
     engine.register_fn(SECTION_FN, move |n: i64| {

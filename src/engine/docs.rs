@@ -1,27 +1,133 @@
-//! Documentation of every native function a script can call: signature with units and a
-//! one-line description. The REPL's `help`/`doc`, `tickwork doc` and `tickwork defs` read it.
+//! The documentation of every script function, read back from the scripting engine's own
+//! function metadata (written at registration by [`super::api::fun`]). The REPL's `help`,
+//! `tickwork doc`, the "did you mean" hints, the editor definition file of `tickwork defs` and
+//! `docs/functions.md` all come from here, so nothing is documented twice.
+use std::collections::BTreeMap;
+use std::sync::OnceLock;
 
-/// One documented script function.
-#[derive(Clone, Copy, Debug)]
+use rhai::Engine;
+
+/// One documented form of a script function.
+#[derive(Clone, Debug, PartialEq)]
 pub struct Doc {
-    pub name: &'static str,
-    /// Signature with units, e.g. `eng(x: float, unit: string, digits: int) -> string`.
-    pub sig: &'static str,
-    pub summary: &'static str,
+    pub name: String,
+    /// Signature as a user reads it, with units: `p.nmos(w: m, l: m) -> Mos`.
+    pub sig: String,
+    pub summary: String,
+    /// Parameters as (name, script type), receiver first.
+    pub params: Vec<(String, String)>,
+    /// Script type of the result.
+    pub result: String,
 }
 
-/// All documented functions, from every registration module.
-pub fn all() -> Vec<Doc> {
-    let mut v = Vec::new();
-    v.extend_from_slice(super::core_api::DOCS);
-    v.extend_from_slice(super::series_api::DOCS);
-    v.extend_from_slice(super::report_api::DOCS);
-    v.extend_from_slice(super::physics_api::DOCS);
-    v.extend_from_slice(super::timing_api::DOCS);
-    v
+/// A registered, callable function and its documentation, if any.
+#[derive(Clone, Debug)]
+pub struct Registered {
+    pub name: String,
+    pub doc: Option<Doc>,
 }
 
-/// Entries for one name (all overloads).
-pub fn lookup(name: &str) -> Vec<Doc> {
-    all().into_iter().filter(|d| d.name == name).collect()
+/// Every function registered in `engine` (our own, not the language's standard library), in a
+/// stable order: by name, then signature.
+pub fn registered(engine: &Engine) -> Vec<Registered> {
+    let json = engine.gen_fn_metadata_to_json(false).unwrap_or_default();
+    let v: serde_json::Value = serde_json::from_str(&json).unwrap_or_default();
+    let mut out = Vec::new();
+    for f in v["functions"].as_array().into_iter().flatten() {
+        let name = f["name"].as_str().unwrap_or("").to_string();
+        let comments: Vec<&str> =
+            f["docComments"].as_array().into_iter().flatten().filter_map(|c| c.as_str()).collect();
+        let doc = comments.first().and_then(|c| parse_comment(&name, c, f));
+        out.push(Registered { name, doc });
+    }
+    out.sort_by(|a, b| {
+        (a.name.as_str(), a.doc.as_ref().map(|d| d.sig.as_str()))
+            .cmp(&(b.name.as_str(), b.doc.as_ref().map(|d| d.sig.as_str())))
+    });
+    out
+}
+
+/// A doc comment written by `api::fun`: "/// `sig`\n/// summary".
+fn parse_comment(name: &str, comment: &str, meta: &serde_json::Value) -> Option<Doc> {
+    let mut lines = comment.lines().map(|l| l.trim_start_matches("///").trim());
+    let sig = lines.next()?.strip_prefix('`')?.strip_suffix('`')?.to_string();
+    let summary = lines.collect::<Vec<_>>().join(" ");
+    let params = meta["params"]
+        .as_array()
+        .into_iter()
+        .flatten()
+        .map(|p| (p["name"].as_str().unwrap_or("_").to_string(), p["type"].as_str().unwrap_or("?").to_string()))
+        .collect();
+    let result = meta["returnType"].as_str().unwrap_or("()").to_string();
+    Some(Doc { name: name.to_string(), sig, summary, params, result })
+}
+
+/// A user calls it by name: not an operator, indexer, property accessor, internal marker or
+/// the display hooks that `print` and string interpolation use.
+pub fn is_user_callable(name: &str) -> bool {
+    name.chars().next().is_some_and(char::is_alphabetic)
+        && !name.contains('$')
+        && !["to_string", "to_debug", "print"].contains(&name)
+}
+
+/// Documented forms of every function, one per distinct signature, from a fresh engine.
+pub fn all() -> &'static [Doc] {
+    static ALL: OnceLock<Vec<Doc>> = OnceLock::new();
+    ALL.get_or_init(|| {
+        let mut v: Vec<Doc> = registered(&reference_engine()).into_iter().filter_map(|r| r.doc).collect();
+        v.dedup_by(|a, b| a.sig == b.sig);
+        v
+    })
+}
+
+/// Entries for one name (all forms).
+pub fn lookup(name: &str) -> Vec<&'static Doc> {
+    all().iter().filter(|d| d.name == name).collect()
+}
+
+/// An engine with every function registered, reporting into a throwaway session: only its
+/// metadata is read.
+pub fn reference_engine() -> Engine {
+    let dir = std::env::temp_dir();
+    let sandbox = super::sandbox::Sandbox::new(&dir, &dir, &dir).expect("the temporary folder can be opened");
+    let session = super::session::Shared::new(super::session::Session::new("docs", sandbox));
+    super::build(&session, super::DEFAULT_MAX_OPS)
+}
+
+/// The reference of every script function as Markdown (`docs/functions.md`), grouped by the
+/// type of the receiver for methods and under "Functions" for the rest.
+pub fn markdown() -> String {
+    let mut groups: BTreeMap<String, Vec<&Doc>> = BTreeMap::new();
+    for d in all() {
+        let method = d.sig.split('(').next().is_some_and(|c| c.contains('.'));
+        let group = if method { d.params.first().map(|p| p.1.clone()).unwrap_or_default() } else { String::new() };
+        groups.entry(group).or_default().push(d);
+    }
+    let mut s = String::from(
+        "# Script functions\n\n<!-- Generated by `tickwork doc --markdown` from the registration of each function; \
+         do not edit by hand (a test fails when this file is stale). -->\n\n\
+         Signatures give units where a number has one (`V`, `A`, `s`, `°C`, …); `|` separates \
+         alternatives; a method `x.f(...)` is also callable as `f(x, ...)`.\n",
+    );
+    for (group, docs) in &groups {
+        let title = if group.is_empty() { "Functions".to_string() } else { format!("Methods of {group}") };
+        s += &format!("\n## {title}\n\n| signature | what it does |\n|---|---|\n");
+        for d in docs {
+            s += &format!("| `{}` | {} |\n", d.sig.replace('|', "\\|"), d.summary.replace('|', "\\|"));
+        }
+    }
+    s
+}
+
+/// The editor definition file: every documented function as the scripting language's own
+/// tooling reads definitions (`module static;` then `fn name(param: Type) -> Type;` with `///`
+/// comments), with script-level type names only.
+pub fn definitions() -> String {
+    let mut s = String::from("module static;\n\n");
+    s += "// tickwork script functions, generated by `tickwork defs`; types are script-level names.\n";
+    for d in all() {
+        let params: Vec<String> = d.params.iter().map(|(n, t)| format!("{n}: {t}")).collect();
+        s += &format!("\n/// `{}`\n/// {}\nfn {}({}) -> {};\n", d.sig, d.summary, d.name, params.join(", "), d.result);
+    }
+    s
 }

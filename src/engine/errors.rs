@@ -223,13 +223,13 @@ fn not_found(sig: &str) -> String {
     }
     let forms = super::docs::lookup(short);
     if !forms.is_empty() {
-        let sigs: Vec<&str> = forms.iter().map(|d| d.sig).collect();
+        let sigs: Vec<&str> = forms.iter().map(|d| d.sig.as_str()).collect();
         return format!("{short}({args}) matches none of its forms: {}", sigs.join("; "));
     }
     let near: Vec<&str> = {
         let mut v: Vec<&str> = super::docs::all()
             .iter()
-            .map(|d| d.name)
+            .map(|d| d.name.as_str())
             .filter(|n| {
                 n.len() > 2 && ((short.len() > 2 && (n.contains(short) || short.contains(n))) || close_name(n, short))
             })

@@ -1,5 +1,6 @@
 //! The scripting engine: Rhai set-up, the source pre-pass, module resolution, sandboxed file
 //! access, and registration of every native module. The only layer that knows about Rhai.
+pub mod api;
 pub mod core_api;
 pub mod docs;
 pub mod errors;

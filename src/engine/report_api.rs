@@ -1,67 +1,14 @@
 //! Registration of the report functions: `show`, `table`, `plot`, `metric`, `save_report`
 //! (and, through the print hook, `print`). Script values become plain report types here.
 use super::value::{R, err};
+use crate::engine::api;
 use rhai::{Array, Dynamic, Engine, Map, NativeCallContext};
 
-use super::docs::Doc;
 use super::session::Shared;
 use super::value::to_f64;
 use crate::num::Series;
 use crate::report::plot::{self, Kind, Plot};
 use crate::report::{Cell, Column, Figure, Item, Metric, Provenance, Spec, Table, format};
-
-pub const DOCS: &[Doc] = &[
-    Doc {
-        name: "show",
-        sig: "show(label: string, value)",
-        summary: "a result line in the report and on the terminal; a Series shows as n, min, mean, max",
-    },
-    Doc {
-        name: "show",
-        sig: "show(label: string, value: float|Series, unit: string)",
-        summary: "a result line, engineering-formatted with its unit: show(\"period\", 2.5e-7, \"s\") → 250 ns",
-    },
-    Doc {
-        name: "show",
-        sig: "show(label: string, value, unit: string, #{full: bool, digits: int})",
-        summary: "full: true lists every element of a Series; digits: 1..17 significant digits (default 3)",
-    },
-    Doc {
-        name: "show",
-        sig: "show(label: string, value, #{full: bool, digits: int})",
-        summary: "the same options for a value without a unit",
-    },
-    Doc {
-        name: "table",
-        sig: "table(data: map of Series/arrays | array of maps)",
-        summary: "a Markdown table; columns of a map come in name order, rows of an array of maps are its elements",
-    },
-    Doc {
-        name: "table",
-        sig: "table(data, #{columns: [names], units: #{name: unit}, digits: int})",
-        summary: "columns: which columns in which order; units: unit of each column, shown in its header (cells get SI prefixes); digits: significant digits (default 3)",
-    },
-    Doc {
-        name: "plot",
-        sig: "plot(#{title, x, y, kind, names, x_label, y_label, x_unit, y_unit, log_x, log_y, bins, stats, labels, waterfall, total_label}) -> string",
-        summary: "an SVG chart beside the report (fig-NN-<title>.svg), linked from it; kinds line (default), scatter, step, histogram (samples in x; bins; stats: true marks the mean and gives mean and σ in the legend), bar (labels + y; waterfall: true stacks them and adds a total); y may be an array of Series with names for the legend; units go in x_unit/y_unit (ticks get SI prefixes); returns the file name",
-    },
-    Doc {
-        name: "metric",
-        sig: "metric(name: string, value: float, unit: string)",
-        summary: "a named figure for results.json and the metrics history; name: lower-case a-z first, then a-z, 0-9, '_' or '.' (64 at most)",
-    },
-    Doc {
-        name: "metric",
-        sig: "metric(name: string, value: float, unit: string, #{min: float, max: float})",
-        summary: "a metric with a spec window (ends included, either may be left out); a failed spec is marked in the report and the run exits with code 3",
-    },
-    Doc {
-        name: "save_report",
-        sig: "save_report(dir: string) -> string",
-        summary: "write what the session showed (report.md, results.json, figures) into dir inside the output folder; returns the folder",
-    },
-];
 
 /// Reject option keys other than `allowed`, naming them all.
 fn check_keys(what: &str, m: &Map, allowed: &[&str]) -> R<()> {
@@ -159,44 +106,87 @@ pub fn register(engine: &mut Engine, shared: &Shared) {
     // The plot font is registered when the engine starts; a failure shows at the first plot.
     let _ = plot::font::ensure();
     let s = shared.clone();
-    engine.register_fn("show", move |ctx: NativeCallContext, label: &str, v: Dynamic| -> R<()> {
-        show(&s, label, &shown(&ctx, v), "", &Map::new())
-    });
+    api::fun(
+        engine,
+        "show(label: string, value)",
+        "a result line in the report and on the terminal; a Series shows as n, min, mean, max",
+        move |ctx: NativeCallContext, label: &str, v: Dynamic| -> R<()> {
+            show(&s, label, &shown(&ctx, v), "", &Map::new())
+        },
+    );
     let s = shared.clone();
-    engine.register_fn("show", move |ctx: NativeCallContext, label: &str, v: Dynamic, unit: &str| -> R<()> {
-        show(&s, label, &shown(&ctx, v), unit, &Map::new())
-    });
+    api::fun(
+        engine,
+        "show(label: string, value: float|Series, unit: string)",
+        "a result line, engineering-formatted with its unit: show(\"period\", 2.5e-7, \"s\") → 250 ns",
+        move |ctx: NativeCallContext, label: &str, v: Dynamic, unit: &str| -> R<()> {
+            show(&s, label, &shown(&ctx, v), unit, &Map::new())
+        },
+    );
     let s = shared.clone();
-    engine.register_fn("show", move |ctx: NativeCallContext, label: &str, v: Dynamic, opts: Map| -> R<()> {
-        show(&s, label, &shown(&ctx, v), "", &opts)
-    });
+    api::fun(
+        engine,
+        "show(label: string, value, #{full: bool, digits: int})",
+        "the same options for a value without a unit",
+        move |ctx: NativeCallContext, label: &str, v: Dynamic, opts: Map| -> R<()> {
+            show(&s, label, &shown(&ctx, v), "", &opts)
+        },
+    );
     let s = shared.clone();
-    engine.register_fn(
-        "show",
+    api::fun(
+        engine,
+        "show(label: string, value, unit: string, #{full: bool, digits: int})",
+        "full: true lists every element of a Series; digits: 1..17 significant digits (default 3)",
         move |ctx: NativeCallContext, label: &str, v: Dynamic, unit: &str, opts: Map| -> R<()> {
             show(&s, label, &shown(&ctx, v), unit, &opts)
         },
     );
 
     let s = shared.clone();
-    engine.register_fn("table", move |data: Dynamic| -> R<()> { table(&s, &data, &Map::new()) });
+    api::fun(
+        engine,
+        "table(data: map of Series/arrays | array of maps)",
+        "a Markdown table; columns of a map come in name order, rows of an array of maps are its elements",
+        move |data: Dynamic| -> R<()> { table(&s, &data, &Map::new()) },
+    );
     let s = shared.clone();
-    engine.register_fn("table", move |data: Dynamic, opts: Map| -> R<()> { table(&s, &data, &opts) });
+    api::fun(
+        engine,
+        "table(data, #{columns: [names], units: #{name: unit}, digits: int})",
+        "columns: which columns in which order; units: unit of each column, shown in its header (cells get SI prefixes); digits: significant digits (default 3)",
+        move |data: Dynamic, opts: Map| -> R<()> { table(&s, &data, &opts) },
+    );
 
     let s = shared.clone();
-    engine.register_fn("plot", move |m: Map| -> R<String> { plot_fn(&s, &m) });
+    api::fun(
+        engine,
+        "plot(#{title, x, y, kind, names, x_label, y_label, x_unit, y_unit, log_x, log_y, bins, stats, labels, waterfall, total_label}) -> string",
+        "an SVG chart beside the report (fig-NN-<title>.svg), linked from it; kinds line (default), scatter, step, histogram (samples in x; bins; stats: true marks the mean and gives mean and σ in the legend), bar (labels + y; waterfall: true stacks them and adds a total); y may be an array of Series with names for the legend; units go in x_unit/y_unit (ticks get SI prefixes); returns the file name",
+        move |m: Map| -> R<String> { plot_fn(&s, &m) },
+    );
 
     let s = shared.clone();
-    engine.register_fn("metric", move |name: &str, v: Dynamic, unit: &str| -> R<()> {
-        metric(&s, name, &v, unit, &Map::new())
-    });
+    api::fun(
+        engine,
+        "metric(name: string, value: float, unit: string)",
+        "a named figure for results.json and the metrics history; name: lower-case a-z first, then a-z, 0-9, '_' or '.' (64 at most)",
+        move |name: &str, v: Dynamic, unit: &str| -> R<()> { metric(&s, name, &v, unit, &Map::new()) },
+    );
     let s = shared.clone();
-    engine.register_fn("metric", move |name: &str, v: Dynamic, unit: &str, spec: Map| -> R<()> {
-        metric(&s, name, &v, unit, &spec)
-    });
+    api::fun(
+        engine,
+        "metric(name: string, value: float, unit: string, #{min: float, max: float})",
+        "a metric with a spec window (ends included, either may be left out); a failed spec is marked in the report and the run exits with code 3",
+        move |name: &str, v: Dynamic, unit: &str, spec: Map| -> R<()> { metric(&s, name, &v, unit, &spec) },
+    );
 
     let s = shared.clone();
-    engine.register_fn("save_report", move |dir: &str| -> R<String> { save_report(&s, dir) });
+    api::fun(
+        engine,
+        "save_report(dir: string) -> string",
+        "write what the session showed (report.md, results.json, figures) into dir inside the output folder; returns the folder",
+        move |dir: &str| -> R<String> { save_report(&s, dir) },
+    );
 }
 
 /// An object of a registered type (oscillator, process, device) as the text its own

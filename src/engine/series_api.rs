@@ -1,63 +1,11 @@
 //! Registration of `Series` with the scripting engine: construction, elementwise arithmetic,
 //! comparisons giving masks, reductions, slicing, elementwise maths and `map` with a closure.
 use super::value::{R, err, lift};
+use crate::engine::api;
 use rhai::{Array, Dynamic, Engine, FnPtr, NativeCallContext};
 
-use super::docs::Doc;
 use super::value::to_f64;
-use crate::num::Series;
-
-pub const DOCS: &[Doc] = &[
-    Doc {
-        name: "span",
-        sig: "span(a: float, b: float, n: int) -> Series",
-        summary: "n points from a to b inclusive, evenly spaced",
-    },
-    Doc {
-        name: "span_log",
-        sig: "span_log(a: float, b: float, n: int) -> Series",
-        summary: "n points from a to b inclusive, evenly spaced in log (a, b > 0)",
-    },
-    Doc { name: "series", sig: "series(values: array) -> Series", summary: "a Series from an array of numbers" },
-    Doc { name: "zeros", sig: "zeros(n: int) -> Series", summary: "n zeros" },
-    Doc { name: "to_array", sig: "s.to_array() -> array", summary: "the Series as an array of floats" },
-    Doc { name: "len", sig: "s.len() -> int", summary: "number of elements" },
-    Doc { name: "is_empty", sig: "s.is_empty() -> bool", summary: "true when the series has no elements" },
-    Doc { name: "sum", sig: "s.sum() -> float", summary: "sum of the elements" },
-    Doc { name: "mean", sig: "s.mean() -> float", summary: "arithmetic mean" },
-    Doc { name: "stdev", sig: "s.stdev() -> float", summary: "sample standard deviation (divides by n − 1)" },
-    Doc { name: "min", sig: "s.min() -> float", summary: "smallest element" },
-    Doc { name: "max", sig: "s.max() -> float", summary: "largest element" },
-    Doc { name: "argmin", sig: "s.argmin() -> int", summary: "index of the smallest element" },
-    Doc { name: "argmax", sig: "s.argmax() -> int", summary: "index of the largest element" },
-    Doc {
-        name: "quantile",
-        sig: "s.quantile(p: float) -> float",
-        summary: "p-quantile, 0 ≤ p ≤ 1, linear interpolation (numpy default)",
-    },
-    Doc {
-        name: "slice",
-        sig: "s.slice(start: int, end: int) -> Series",
-        summary: "elements start..end (end excluded); also s[a..b]",
-    },
-    Doc {
-        name: "select",
-        sig: "s.select(mask: Series) -> Series",
-        summary: "elements where mask is non-zero (masks come from s > x, s <= t, …)",
-    },
-    Doc { name: "count", sig: "mask.count() -> int", summary: "number of non-zero elements" },
-    Doc { name: "map", sig: "s.map(f: fn(float) -> float) -> Series", summary: "apply a function to every element" },
-    Doc { name: "exp", sig: "exp(s: Series) -> Series", summary: "elementwise e^x" },
-    Doc { name: "ln", sig: "ln(s: Series) -> Series", summary: "elementwise natural logarithm" },
-    Doc { name: "log10", sig: "log10(s: Series) -> Series", summary: "elementwise base-10 logarithm" },
-    Doc { name: "sqrt", sig: "sqrt(s: Series) -> Series", summary: "elementwise square root" },
-    Doc { name: "abs", sig: "abs(s: Series) -> Series", summary: "elementwise absolute value" },
-    Doc {
-        name: "pow",
-        sig: "pow(s: Series|float, p: float|Series) -> Series|float",
-        summary: "elementwise power; also s ** p",
-    },
-];
+use crate::num::{Series, math};
 
 fn index(s: &Series, i: i64) -> R<usize> {
     let n = s.len() as i64;
@@ -103,6 +51,14 @@ fn reduce(s: &Series, what: &str, need: usize, f: impl Fn(&Series) -> f64) -> R<
 }
 
 macro_rules! arith {
+    ($engine:ident, $sig:literal, $sum:literal, $f:expr) => {{
+        let f = $f;
+        api::fun($engine, $sig, $sum, move |a: Series, b: Series| lift(a.zip_with(b, f)));
+        api::fun($engine, $sig, $sum, move |a: Series, b: f64| a.map_in_place(|x| f(x, b)));
+        api::fun($engine, $sig, $sum, move |a: Series, b: i64| a.map_in_place(|x| f(x, b as f64)));
+        api::fun($engine, $sig, $sum, move |a: f64, b: Series| b.map_in_place(|y| f(a, y)));
+        api::fun($engine, $sig, $sum, move |a: i64, b: Series| b.map_in_place(|y| f(a as f64, y)));
+    }};
     ($engine:ident, $op:literal, $f:expr) => {{
         let f = $f;
         $engine.register_fn($op, move |a: Series, b: Series| lift(a.zip_with(b, f)));
@@ -122,40 +78,53 @@ macro_rules! compare {
 }
 
 macro_rules! unary {
-    ($engine:ident, $name:literal, $f:expr) => {{
-        $engine.register_fn($name, |a: Series| a.map_in_place($f));
+    ($engine:ident, $sig:literal, $sum:literal, $f:expr) => {{
+        api::fun($engine, $sig, $sum, |a: Series| a.map_in_place($f));
     }};
 }
+
+/// Most elements `span`, `span_log` and `zeros` make.
+pub const MAX_LEN: i64 = 100_000_000;
 
 pub fn register(engine: &mut Engine) {
     engine.register_type_with_name::<Series>("Series");
 
-    engine.register_fn("span", |a: Dynamic, b: Dynamic, n: i64| -> R<Series> {
-        let (a, b) = (end("span", "a", &a)?, end("span", "b", &b)?);
-        if !(1..=100_000_000).contains(&n) {
-            return err(format!("span: n must be in 1..=100000000, got {n}"));
-        }
-        Ok(Series::span(a, b, n as usize))
-    });
-    engine.register_fn("span_log", |a: Dynamic, b: Dynamic, n: i64| -> R<Series> {
-        let (a, b) = (end("span_log", "a", &a)?, end("span_log", "b", &b)?);
-        if !(a > 0.0 && b > 0.0) {
-            return err(format!("span_log needs both ends > 0, got a = {a} and b = {b}"));
-        }
-        if !(1..=100_000_000).contains(&n) {
-            return err(format!("span_log: n must be in 1..=100000000, got {n}"));
-        }
-        lift(Series::span_log(a, b, n as usize))
-    });
-    engine.register_fn("series", |a: Array| from_array(&a));
-    engine.register_fn("series", |s: Series| s);
-    engine.register_fn("zeros", |n: i64| -> R<Series> {
-        if !(0..=100_000_000).contains(&n) {
-            return err(format!("zeros: n must be in 0..=100000000, got {n}"));
+    api::fun(
+        engine,
+        "span(a: float, b: float, n: int) -> Series",
+        "n points from a to b inclusive, evenly spaced",
+        |a: Dynamic, b: Dynamic, n: i64| -> R<Series> {
+            let (a, b) = (end("span", "a", &a)?, end("span", "b", &b)?);
+            if !(1..=MAX_LEN).contains(&n) {
+                return err(format!("span: n must be in 1..={MAX_LEN}, got {n}"));
+            }
+            Ok(Series::span(a, b, n as usize))
+        },
+    );
+    api::fun(
+        engine,
+        "span_log(a: float, b: float, n: int) -> Series",
+        "n points from a to b inclusive, evenly spaced in log (a, b > 0)",
+        |a: Dynamic, b: Dynamic, n: i64| -> R<Series> {
+            let (a, b) = (end("span_log", "a", &a)?, end("span_log", "b", &b)?);
+            if !(a > 0.0 && b > 0.0) {
+                return err(format!("span_log needs both ends > 0, got a = {a} and b = {b}"));
+            }
+            if !(1..=MAX_LEN).contains(&n) {
+                return err(format!("span_log: n must be in 1..={MAX_LEN}, got {n}"));
+            }
+            lift(Series::span_log(a, b, n as usize))
+        },
+    );
+    api::fun(engine, "series(values: array) -> Series", "a Series from an array of numbers", |a: Array| from_array(&a));
+    api::fun(engine, "series(values: array) -> Series", "a Series from an array of numbers", |s: Series| s);
+    api::fun(engine, "zeros(n: int) -> Series", "n zeros", |n: i64| -> R<Series> {
+        if !(0..=MAX_LEN).contains(&n) {
+            return err(format!("zeros: n must be in 0..={MAX_LEN}, got {n}"));
         }
         Ok(Series::from(vec![0.0; n as usize]))
     });
-    engine.register_fn("to_array", |s: &mut Series| -> Array {
+    api::fun(engine, "s.to_array() -> array", "the Series as an array of floats", |s: &mut Series| -> Array {
         s.as_slice().iter().map(|x| Dynamic::from_float(*x)).collect()
     });
     engine.register_fn("to_string", |s: &mut Series| format_series(s));
@@ -165,10 +134,25 @@ pub fn register(engine: &mut Engine) {
     arith!(engine, "-", |x: f64, y: f64| x - y);
     arith!(engine, "*", |x: f64, y: f64| x * y);
     arith!(engine, "/", |x: f64, y: f64| x / y);
-    arith!(engine, "**", |x: f64, y: f64| x.powf(y));
-    arith!(engine, "pow", |x: f64, y: f64| x.powf(y));
-    engine.register_fn("pow", |x: f64, y: f64| x.powf(y));
-    engine.register_fn("pow", |x: f64, y: i64| x.powi(y as i32));
+    arith!(engine, "**", math::pow);
+    arith!(
+        engine,
+        "pow(s: Series|float, p: float|Series) -> Series|float",
+        "elementwise power; also s ** p",
+        math::pow
+    );
+    api::fun(
+        engine,
+        "pow(s: Series|float, p: float|Series) -> Series|float",
+        "elementwise power; also s ** p",
+        math::pow,
+    );
+    api::fun(
+        engine,
+        "pow(s: Series|float, p: float|Series) -> Series|float",
+        "elementwise power; also s ** p",
+        |x: f64, y: i64| x.powi(y as i32),
+    );
     engine.register_fn("-", |a: Series| a.map_in_place(|x| -x));
     engine.register_fn("+", |a: Series| a);
     compare!(engine, "<", |x: f64, y: f64| x < y);
@@ -178,37 +162,64 @@ pub fn register(engine: &mut Engine) {
     engine.register_fn("==", |a: Series, b: Series| a == b);
     engine.register_fn("!=", |a: Series, b: Series| a != b);
 
-    unary!(engine, "exp", f64::exp);
-    unary!(engine, "ln", f64::ln);
-    unary!(engine, "log10", f64::log10);
-    unary!(engine, "sqrt", f64::sqrt);
-    unary!(engine, "abs", f64::abs);
+    api::fun(engine, "exp(s: Series) -> Series", "elementwise e^x", |a: Series| a.apply(math::exp_slice));
+    api::fun(engine, "ln(s: Series) -> Series", "elementwise natural logarithm", |a: Series| a.apply(math::ln_slice));
+    unary!(engine, "log10(s: Series) -> Series", "elementwise base-10 logarithm", math::log10);
+    unary!(engine, "sqrt(s: Series) -> Series", "elementwise square root", f64::sqrt);
+    unary!(engine, "abs(s: Series) -> Series", "elementwise absolute value", f64::abs);
 
-    engine.register_fn("len", |s: &mut Series| s.len() as i64);
-    engine.register_fn("is_empty", |s: &mut Series| s.is_empty());
-    engine.register_fn("sum", |s: &mut Series| s.sum());
-    engine.register_fn("mean", |s: &mut Series| reduce(s, "mean", 1, Series::mean));
-    engine.register_fn("stdev", |s: &mut Series| reduce(s, "stdev", 2, Series::stdev));
-    engine.register_fn("min", |s: &mut Series| reduce(s, "min", 1, Series::min));
-    engine.register_fn("max", |s: &mut Series| reduce(s, "max", 1, Series::max));
-    engine.register_fn("argmin", |s: &mut Series| -> R<i64> {
+    // The language's own float functions call the platform's maths library; these forms take
+    // precedence and give the same bits on every machine.
+    api::fun(engine, "exp(x: float) -> float", "e^x", math::exp);
+    api::fun(engine, "ln(x: float) -> float", "natural logarithm", math::ln);
+    api::fun(engine, "log(x: float) -> float", "base-10 logarithm", math::log10);
+    api::fun(engine, "log10(x: float) -> float", "base-10 logarithm", math::log10);
+
+    api::fun(engine, "s.len() -> int", "number of elements", |s: &mut Series| s.len() as i64);
+    api::fun(engine, "s.is_empty() -> bool", "true when the series has no elements", |s: &mut Series| s.is_empty());
+    api::fun(engine, "s.sum() -> float", "sum of the elements", |s: &mut Series| s.sum());
+    api::fun(engine, "s.mean() -> float", "arithmetic mean", |s: &mut Series| reduce(s, "mean", 1, Series::mean));
+    api::fun(engine, "s.stdev() -> float", "sample standard deviation (divides by n − 1)", |s: &mut Series| {
+        reduce(s, "stdev", 2, Series::stdev)
+    });
+    api::fun(engine, "s.min() -> float", "smallest element", |s: &mut Series| reduce(s, "min", 1, Series::min));
+    api::fun(engine, "s.max() -> float", "largest element", |s: &mut Series| reduce(s, "max", 1, Series::max));
+    api::fun(engine, "s.argmin() -> int", "index of the smallest element", |s: &mut Series| -> R<i64> {
         s.argmin().map(|k| k as i64).ok_or_else(|| "argmin of an empty (or all-NaN) series".into())
     });
-    engine.register_fn("argmax", |s: &mut Series| -> R<i64> {
+    api::fun(engine, "s.argmax() -> int", "index of the largest element", |s: &mut Series| -> R<i64> {
         s.argmax().map(|k| k as i64).ok_or_else(|| "argmax of an empty (or all-NaN) series".into())
     });
-    engine.register_fn("quantile", |s: &mut Series, p: Dynamic| -> R<f64> {
-        let p = to_f64(&p).map_err(|_| format!("quantile: p must be a number in [0, 1], found {}", p.type_name()))?;
-        s.quantile(p).map_err(|e| e.into())
+    api::fun(
+        engine,
+        "s.quantile(p: float) -> float",
+        "p-quantile, 0 ≤ p ≤ 1, linear interpolation (numpy default)",
+        |s: &mut Series, p: Dynamic| -> R<f64> {
+            let p =
+                to_f64(&p).map_err(|_| format!("quantile: p must be a number in [0, 1], found {}", p.type_name()))?;
+            s.quantile(p).map_err(|e| e.into())
+        },
+    );
+    api::fun(engine, "mask.count() -> int", "number of non-zero elements", |s: &mut Series| {
+        s.as_slice().iter().filter(|x| **x != 0.0).count() as i64
     });
-    engine.register_fn("count", |s: &mut Series| s.as_slice().iter().filter(|x| **x != 0.0).count() as i64);
-    engine.register_fn("select", |s: &mut Series, mask: Series| lift(s.select(&mask)));
-    engine.register_fn("slice", |s: &mut Series, a: i64, b: i64| -> R<Series> {
-        if a < 0 || b < a {
-            return err(format!("slice({a}, {b}): need 0 <= start <= end"));
-        }
-        Ok(s.slice(a as usize, b as usize))
-    });
+    api::fun(
+        engine,
+        "s.select(mask: Series) -> Series",
+        "elements where mask is non-zero (masks come from s > x, s <= t, …)",
+        |s: &mut Series, mask: Series| lift(s.select(&mask)),
+    );
+    api::fun(
+        engine,
+        "s.slice(start: int, end: int) -> Series",
+        "elements start..end (end excluded); also s[a..b]",
+        |s: &mut Series, a: i64, b: i64| -> R<Series> {
+            if a < 0 || b < a {
+                return err(format!("slice({a}, {b}): need 0 <= start <= end"));
+            }
+            Ok(s.slice(a as usize, b as usize))
+        },
+    );
     engine.register_indexer_get(|s: &mut Series, i: i64| -> R<f64> { Ok(s.as_slice()[index(s, i)?]) });
     engine.register_indexer_set(|s: &mut Series, i: i64, v: Dynamic| -> R<()> {
         let k = index(s, i)?;
@@ -228,14 +239,21 @@ pub fn register(engine: &mut Engine) {
         }
         Ok(s.slice(a as usize, b as usize + 1))
     });
-    engine.register_fn("map", |ctx: NativeCallContext, s: &mut Series, f: FnPtr| -> R<Series> {
-        let mut out = Vec::with_capacity(s.len());
-        for &x in s.as_slice() {
-            let y: Dynamic = f.call_within_context(&ctx, (x,))?;
-            out.push(to_f64(&y).map_err(|_| format!("map: the function returned a {}, not a number", y.type_name()))?);
-        }
-        Ok(Series::from(out))
-    });
+    api::fun(
+        engine,
+        "s.map(f: fn(float) -> float) -> Series",
+        "apply a function to every element",
+        |ctx: NativeCallContext, s: &mut Series, f: FnPtr| -> R<Series> {
+            let mut out = Vec::with_capacity(s.len());
+            for &x in s.as_slice() {
+                let y: Dynamic = f.call_within_context(&ctx, (x,))?;
+                out.push(
+                    to_f64(&y).map_err(|_| format!("map: the function returned a {}, not a number", y.type_name()))?,
+                );
+            }
+            Ok(Series::from(out))
+        },
+    );
     // `for x in s { … }` iterates over the elements.
     engine.register_iterator::<Series>();
 }

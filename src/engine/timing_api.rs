@@ -1,9 +1,9 @@
 //! Registration of the timing layer: `osc(kind, #{...})`, its methods (ideal period, period
 //! with parasitics, cycle details, error budget, operating point) and `osc_keys(kind)`.
 use super::value::{R, lift};
+use crate::engine::api;
 use rhai::{Array, Dynamic, Engine, Map};
 
-use super::docs::Doc;
 use super::session::Shared;
 use super::value::to_f64;
 use crate::num::Series;
@@ -13,99 +13,10 @@ use crate::physics::process::Process;
 use crate::timing::budget::budget;
 use crate::timing::from_process::{Choices, osc_from};
 use crate::timing::keys::{Dflt, Kind, Mode, def};
-use crate::timing::transient::{MAX_CYCLES, Options, Transient, simulate};
+use crate::timing::transient::{
+    MAX_CYCLES, MAX_POINTS_PER_PHASE, Options, RTOL, RTOL_RANGE, SETTLE_RTOL, Transient, simulate,
+};
 use crate::timing::{Cycle, Mask, Osc};
-
-pub const DOCS: &[Doc] = &[
-    Doc {
-        name: "osc",
-        sig: "osc(kind: string, params: map) -> Oscillator",
-        summary: "an oscillator from explicit numbers; kinds \"rc-inverter\", \"schmitt\", \"window\", \"reset\", \"pingpong\"; keys c (F), i (A), r (Ω), v_lo, v_hi, vdd (V), temp (°C) and one key per parasitic (default ideal); osc_keys(kind) lists them",
-    },
-    Doc {
-        name: "osc_from",
-        sig: "osc_from(process: Process|string, kind: string, params: map) -> Oscillator",
-        summary: "an oscillator whose parts are devices of a process (a process object, or a built-in name such as \"demo180\"): mirrors, switches, input-pair comparators, process capacitor; device sizes mirror_w, mirror_l, sw_w, sw_l, cmp_w, cmp_l (m), cmp_itail (A), cmp_cload (F); inverter sizes inv_wn, inv_wp, inv_l (m); names cap_type (default \"mim\"), res_type (default \"rpoly\") and mirror (\"simple\", \"cascode\", \"wide-swing\"; default \"cascode\"); osc_keys(kind, \"process\") lists the keys",
-    },
-    Doc {
-        name: "osc_keys",
-        sig: "osc_keys(kind: string) -> array",
-        summary: "the keys an oscillator kind accepts in osc(), each as \"name (unit): meaning [default]\"",
-    },
-    Doc {
-        name: "osc_keys",
-        sig: "osc_keys(kind: string, \"process\") -> array",
-        summary: "the numeric keys of osc_from() for that kind",
-    },
-    Doc {
-        name: "corners",
-        sig: "o.corners() -> array",
-        summary: "the corners the oscillator can be evaluated at (o.at(#{corner: name}))",
-    },
-    Doc {
-        name: "ideal_period",
-        sig: "o.ideal_period() -> float",
-        summary: "the textbook period of the topology from its basic keys, s",
-    },
-    Doc {
-        name: "period",
-        sig: "o.period() -> float",
-        summary: "the period with every parasitic, in periodic steady state, s",
-    },
-    Doc { name: "frequency", sig: "o.frequency() -> float", summary: "1 / period with every parasitic, Hz" },
-    Doc {
-        name: "duty",
-        sig: "o.duty() -> float",
-        summary: "fraction of the period in the first phase (charging; capacitor A; the reset pulse for \"reset\")",
-    },
-    Doc {
-        name: "v_peak",
-        sig: "o.v_peak() -> float",
-        summary: "highest node voltage over the cycle, overshoot included, V",
-    },
-    Doc {
-        name: "overshoot",
-        sig: "o.overshoot() -> float",
-        summary: "largest excursion of the node beyond a threshold caused by the delay chain, V",
-    },
-    Doc {
-        name: "cycle",
-        sig: "o.cycle() -> map",
-        summary: "period, frequency, duty, v_peak, v_valley (V), overshoot (V), iterations, phases (array of #{name, v_start, v_threshold, v_end, ramp, delay, slope})",
-    },
-    Doc {
-        name: "budget",
-        sig: "o.budget() -> map",
-        summary: "error budget: ideal, full, total_error, remainder, ideal_comparators, comparator_share, ideal_delay_chain, delay_chain_share (s); rows (array of #{parasitic, alone, alone_pct, step, step_pct, cumulative} for table; pct = % of the ideal period); waterfall and buildup (#{labels, y} for plot kind \"bar\", waterfall: true)",
-    },
-    Doc {
-        name: "at",
-        sig: "o.at(#{temp: °C, vdd: V, corner: string}) -> Oscillator",
-        summary: "the same oscillator at another operating point (any of the keys)",
-    },
-    Doc {
-        name: "modified",
-        sig: "o.modified(params: map) -> Oscillator",
-        summary: "a copy of the oscillator with some keys changed (checked like osc); o itself is unchanged",
-    },
-    Doc {
-        name: "sweep",
-        sig: "o.sweep(key: string, values: Series) -> Series",
-        summary: "period with every parasitic for each value of one key, s",
-    },
-    Doc { name: "kind", sig: "o.kind() -> string", summary: "the topology name" },
-    Doc { name: "params", sig: "o.params() -> map", summary: "the keys given, with their values" },
-    Doc {
-        name: "simulate",
-        sig: "o.simulate(cycles: int) -> map",
-        summary: "behavioural transient run of 1..=100000 cycles with every parasitic, from a defined start (window, schmitt: node at the low threshold; reset, pingpong: capacitors at the reset level; rc-inverter: capacitor discharged, X = vdd): t (s) and v (V; v2 = capacitor B for pingpong) Series of the waveform, names (the nodes), events #{t (s), v (V), what (\"crossing\", \"decision\", \"switch\"), phase, label}, periods and duties (one per cycle), period (s) and duty of the steady state (mean of the last quarter of the cycles), frequency (Hz), settle_cycles (cycles more than 1e-6 off the steady period), v_min, v_max (V), steps",
-    },
-    Doc {
-        name: "simulate",
-        sig: "o.simulate(cycles: int, options: map) -> map",
-        summary: "as o.simulate(cycles), with options points_per_phase (0..=10000 waveform samples per phase; default 64, fewer for long runs), v0 (V, start voltage of the node, capacitor A or X), v0_b (V, start of pingpong capacitor B), rtol (integrator relative tolerance, 1e-13..=1e-4, default 1e-10)",
-    },
-];
 
 /// Numbers of an option map, each named in errors.
 fn pairs(what: &str, m: &Map) -> R<Vec<(String, f64)>> {
@@ -375,75 +286,174 @@ pub fn register(engine: &mut Engine, _session: &Shared) {
     engine.register_fn("to_string", |o: &mut Osc| describe(o));
     engine.register_fn("to_debug", |o: &mut Osc| describe(o));
 
-    engine.register_fn("osc", |k: &str, m: Map| -> R<Osc> {
-        let kind = kind(k)?;
-        lift(Osc::new(kind, &pairs(&format!("osc(\"{k}\")"), &m)?))
-    });
-    engine.register_fn("osc_keys", |k: &str| -> R<Array> { Ok(key_help(kind(k)?, Mode::Explicit)) });
-    engine.register_fn("osc_keys", |k: &str, mode: &str| -> R<Array> {
-        match mode {
-            "process" => Ok(key_help(kind(k)?, Mode::Process)),
-            "explicit" => Ok(key_help(kind(k)?, Mode::Explicit)),
-            _ => {
-                Err(format!("osc_keys: the second argument must be \"explicit\" or \"process\", got \"{mode}\"").into())
+    api::fun(
+        engine,
+        "osc(kind: string, params: map) -> Oscillator",
+        "an oscillator from explicit numbers; kinds \"rc-inverter\", \"schmitt\", \"window\", \"reset\", \"pingpong\"; keys c (F), i (A), r (Ω), v_lo, v_hi, vdd (V), temp (°C) and one key per parasitic (default ideal); osc_keys(kind) lists them",
+        |k: &str, m: Map| -> R<Osc> {
+            let kind = kind(k)?;
+            lift(Osc::new(kind, &pairs(&format!("osc(\"{k}\")"), &m)?))
+        },
+    );
+    api::fun(
+        engine,
+        "osc_keys(kind: string) -> array",
+        "the keys an oscillator kind accepts in osc(), each as \"name (unit): meaning [default]\"",
+        |k: &str| -> R<Array> { Ok(key_help(kind(k)?, Mode::Explicit)) },
+    );
+    api::fun(
+        engine,
+        "osc_keys(kind: string, \"process\") -> array",
+        "the numeric keys of osc_from() for that kind",
+        |k: &str, mode: &str| -> R<Array> {
+            match mode {
+                "process" => Ok(key_help(kind(k)?, Mode::Process)),
+                "explicit" => Ok(key_help(kind(k)?, Mode::Explicit)),
+                _ => {
+                    Err(format!("osc_keys: the second argument must be \"explicit\" or \"process\", got \"{mode}\"")
+                        .into())
+                }
             }
-        }
-    });
-    engine.register_fn("osc_from", |pr: Process, k: &str, m: Map| -> R<Osc> { from_process(&pr, k, m) });
-    engine.register_fn("osc_from", |name: &str, k: &str, m: Map| -> R<Osc> {
-        from_process(&lift(Process::builtin(name))?, k, m)
-    });
-    engine.register_fn("corners", |o: &mut Osc| -> Array { o.corners().into_iter().map(Dynamic::from).collect() });
+        },
+    );
+    api::fun(
+        engine,
+        "osc_from(process: Process|string, kind: string, params: map) -> Oscillator",
+        "an oscillator whose parts are devices of a process (a process object, or a built-in name such as \"demo180\"): mirrors, switches, input-pair comparators, process capacitor; device sizes mirror_w, mirror_l, sw_w, sw_l, cmp_w, cmp_l (m), cmp_itail (A), cmp_cload (F); inverter sizes inv_wn, inv_wp, inv_l (m); names cap_type (default \"mim\"), res_type (default \"rpoly\") and mirror (\"simple\", \"cascode\", \"wide-swing\"; default \"cascode\"); osc_keys(kind, \"process\") lists the keys",
+        |pr: Process, k: &str, m: Map| -> R<Osc> { from_process(&pr, k, m) },
+    );
+    api::fun(
+        engine,
+        "osc_from(process: Process|string, kind: string, params: map) -> Oscillator",
+        "an oscillator whose parts are devices of a process (a process object, or a built-in name such as \"demo180\"): mirrors, switches, input-pair comparators, process capacitor; device sizes mirror_w, mirror_l, sw_w, sw_l, cmp_w, cmp_l (m), cmp_itail (A), cmp_cload (F); inverter sizes inv_wn, inv_wp, inv_l (m); names cap_type (default \"mim\"), res_type (default \"rpoly\") and mirror (\"simple\", \"cascode\", \"wide-swing\"; default \"cascode\"); osc_keys(kind, \"process\") lists the keys",
+        |name: &str, k: &str, m: Map| -> R<Osc> { from_process(&lift(Process::builtin(name))?, k, m) },
+    );
+    api::fun(
+        engine,
+        "o.corners() -> array",
+        "the corners the oscillator can be evaluated at (o.at(#{corner: name}))",
+        |o: &mut Osc| -> Array { o.corners().into_iter().map(Dynamic::from).collect() },
+    );
 
-    engine.register_fn("ideal_period", |o: &mut Osc| -> R<f64> { lift(o.ideal_period()) });
-    engine.register_fn("period", |o: &mut Osc| -> R<f64> { lift(o.period()) });
-    engine.register_fn("frequency", |o: &mut Osc| -> R<f64> { Ok(lift(o.cycle(Mask::ALL))?.frequency()) });
-    engine.register_fn("duty", |o: &mut Osc| -> R<f64> { Ok(lift(o.cycle(Mask::ALL))?.duty) });
-    engine.register_fn("v_peak", |o: &mut Osc| -> R<f64> { Ok(lift(o.cycle(Mask::ALL))?.v_peak) });
-    engine.register_fn("overshoot", |o: &mut Osc| -> R<f64> { Ok(lift(o.cycle(Mask::ALL))?.overshoot) });
-    engine.register_fn("cycle", |o: &mut Osc| -> R<Map> { Ok(cycle_map(&lift(o.cycle(Mask::ALL))?)) });
-    engine.register_fn("budget", |o: &mut Osc| -> R<Map> { budget_map(o) });
-    engine.register_fn("kind", |o: &mut Osc| o.kind().name().to_string());
-    engine.register_fn("params", |o: &mut Osc| -> Map {
+    api::fun(
+        engine,
+        "o.ideal_period() -> float",
+        "the textbook period of the topology from its basic keys, s",
+        |o: &mut Osc| -> R<f64> { lift(o.ideal_period()) },
+    );
+    api::fun(
+        engine,
+        "o.period() -> float",
+        "the period with every parasitic, in periodic steady state, s",
+        |o: &mut Osc| -> R<f64> { lift(o.period()) },
+    );
+    api::fun(engine, "o.frequency() -> float", "1 / period with every parasitic, Hz", |o: &mut Osc| -> R<f64> {
+        Ok(lift(o.cycle(Mask::ALL))?.frequency())
+    });
+    api::fun(
+        engine,
+        "o.duty() -> float",
+        "fraction of the period in the first phase (charging; capacitor A; the reset pulse for \"reset\")",
+        |o: &mut Osc| -> R<f64> { Ok(lift(o.cycle(Mask::ALL))?.duty) },
+    );
+    api::fun(
+        engine,
+        "o.v_peak() -> float",
+        "highest node voltage over the cycle, overshoot included, V",
+        |o: &mut Osc| -> R<f64> { Ok(lift(o.cycle(Mask::ALL))?.v_peak) },
+    );
+    api::fun(
+        engine,
+        "o.overshoot() -> float",
+        "largest excursion of the node beyond a threshold caused by the delay chain, V",
+        |o: &mut Osc| -> R<f64> { Ok(lift(o.cycle(Mask::ALL))?.overshoot) },
+    );
+    api::fun(
+        engine,
+        "o.cycle() -> map",
+        "period, frequency, duty, v_peak, v_valley (V), overshoot (V), iterations, phases (array of #{name, v_start, v_threshold, v_end, ramp, delay, slope})",
+        |o: &mut Osc| -> R<Map> { Ok(cycle_map(&lift(o.cycle(Mask::ALL))?)) },
+    );
+    api::fun(
+        engine,
+        "o.budget() -> map",
+        "error budget: ideal, full, total_error, remainder, ideal_comparators, comparator_share, ideal_delay_chain, delay_chain_share (s); rows (array of #{parasitic, alone, alone_pct, step, step_pct, cumulative} for table; pct = % of the ideal period); waterfall and buildup (#{labels, y} for plot kind \"bar\", waterfall: true)",
+        |o: &mut Osc| -> R<Map> { budget_map(o) },
+    );
+    api::fun(engine, "o.kind() -> string", "the topology name", |o: &mut Osc| o.kind().name().to_string());
+    api::fun(engine, "o.params() -> map", "the keys given, with their values", |o: &mut Osc| -> Map {
         o.params.given().map(|(k, v)| (k.into(), Dynamic::from_float(v))).collect()
     });
 
-    engine.register_fn("modified", |o: &mut Osc, m: Map| -> R<Osc> { lift(o.with(&pairs("modified", &m)?)) });
-    engine.register_fn("at", |o: &mut Osc, m: Map| -> R<Osc> {
-        let mut temp = None;
-        let mut vdd = None;
-        let mut corner = None;
-        for (k, v) in &m {
-            match k.as_str() {
-                "temp" => {
-                    temp = Some(
-                        to_f64(v)
-                            .map_err(|_| format!("at: key 'temp' must be a number (°C), found {}", v.type_name()))?,
-                    )
+    api::fun(
+        engine,
+        "o.modified(params: map) -> Oscillator",
+        "a copy of the oscillator with some keys changed (checked like osc); o itself is unchanged",
+        |o: &mut Osc, m: Map| -> R<Osc> { lift(o.with(&pairs("modified", &m)?)) },
+    );
+    api::fun(
+        engine,
+        "o.at(#{temp: °C, vdd: V, corner: string}) -> Oscillator",
+        "the same oscillator at another operating point (any of the keys)",
+        |o: &mut Osc, m: Map| -> R<Osc> {
+            let mut temp = None;
+            let mut vdd = None;
+            let mut corner = None;
+            for (k, v) in &m {
+                match k.as_str() {
+                    "temp" => {
+                        temp =
+                            Some(to_f64(v).map_err(|_| {
+                                format!("at: key 'temp' must be a number (°C), found {}", v.type_name())
+                            })?)
+                    }
+                    "vdd" => {
+                        vdd = Some(
+                            to_f64(v)
+                                .map_err(|_| format!("at: key 'vdd' must be a number (V), found {}", v.type_name()))?,
+                        )
+                    }
+                    "corner" => {
+                        corner = Some(
+                            v.clone()
+                                .into_string()
+                                .map_err(|t| format!("at: key 'corner' must be a string, found {t}"))?,
+                        )
+                    }
+                    other => return Err(format!("at: unknown key '{other}'; the keys are temp, vdd, corner").into()),
                 }
-                "vdd" => {
-                    vdd = Some(
-                        to_f64(v)
-                            .map_err(|_| format!("at: key 'vdd' must be a number (V), found {}", v.type_name()))?,
-                    )
-                }
-                "corner" => {
-                    corner = Some(
-                        v.clone().into_string().map_err(|t| format!("at: key 'corner' must be a string, found {t}"))?,
-                    )
-                }
-                other => return Err(format!("at: unknown key '{other}'; the keys are temp, vdd, corner").into()),
             }
-        }
-        lift(o.at(temp, vdd, corner.as_deref()))
-    });
-    engine.register_fn("simulate", |o: &mut Osc, cycles: Dynamic| -> R<Map> {
-        Ok(transient_map(lift(simulate(o, cycles_arg(&cycles)?, &Options::default()))?))
-    });
-    engine.register_fn("simulate", |o: &mut Osc, cycles: Dynamic, opts: Map| -> R<Map> {
-        Ok(transient_map(lift(simulate(o, cycles_arg(&cycles)?, &sim_options(&opts)?))?))
-    });
-    engine.register_fn("sweep", |o: &mut Osc, key: &str, values: Series| -> R<Series> {
-        values.as_slice().iter().map(|x| lift(o.with(&[(key.to_string(), *x)]).and_then(|p| p.period()))).collect()
-    });
+            lift(o.at(temp, vdd, corner.as_deref()))
+        },
+    );
+    api::fun(
+        engine,
+        "o.simulate(cycles: int) -> map",
+        &format!(
+            "behavioural transient run of 1..={MAX_CYCLES} cycles with every parasitic, from a defined start (window, schmitt: node at the low threshold; reset, pingpong: capacitors at the reset level; rc-inverter: capacitor discharged, X = vdd): t (s) and v (V; v2 = capacitor B for pingpong) Series of the waveform, names (the nodes), events #{{t (s), v (V), what (\"crossing\", \"decision\", \"switch\"), phase, label}}, periods and duties (one per cycle), period (s) and duty of the steady state (mean of the last quarter of the cycles), frequency (Hz), settle_cycles (cycles more than {SETTLE_RTOL:e} off the steady period), v_min, v_max (V), steps"
+        ),
+        |o: &mut Osc, cycles: Dynamic| -> R<Map> {
+            Ok(transient_map(lift(simulate(o, cycles_arg(&cycles)?, &Options::default()))?))
+        },
+    );
+    api::fun(
+        engine,
+        "o.simulate(cycles: int, options: map) -> map",
+        &format!(
+            "as o.simulate(cycles), with options points_per_phase (0..={MAX_POINTS_PER_PHASE} waveform samples per phase; default 64, fewer for long runs), v0 (V, start voltage of the node, capacitor A or X), v0_b (V, start of pingpong capacitor B), rtol (integrator relative tolerance, {:e}..={:e}, default {RTOL:e})",
+            RTOL_RANGE.start(),
+            RTOL_RANGE.end()
+        ),
+        |o: &mut Osc, cycles: Dynamic, opts: Map| -> R<Map> {
+            Ok(transient_map(lift(simulate(o, cycles_arg(&cycles)?, &sim_options(&opts)?))?))
+        },
+    );
+    api::fun(
+        engine,
+        "o.sweep(key: string, values: Series) -> Series",
+        "period with every parasitic for each value of one key, s",
+        |o: &mut Osc, key: &str, values: Series| -> R<Series> {
+            values.as_slice().iter().map(|x| lift(o.with(&[(key.to_string(), *x)]).and_then(|p| p.period()))).collect()
+        },
+    );
 }

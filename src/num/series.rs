@@ -4,6 +4,8 @@
 //! function costs nothing, and a temporary result is reused in place by the next operation.
 use std::sync::Arc;
 
+use super::math;
+
 #[derive(Clone, Debug, PartialEq, Default)]
 pub struct Series(Arc<Vec<f64>>);
 
@@ -37,6 +39,12 @@ impl Series {
         Arc::make_mut(&mut self.0)
     }
 
+    /// Apply `f` to the elements in place; copies the buffer first only if it is shared.
+    pub fn apply(mut self, f: impl FnOnce(&mut [f64])) -> Series {
+        f(self.make_mut());
+        self
+    }
+
     /// `n` points from `a` to `b` inclusive, evenly spaced. `n == 1` gives `[a]`.
     pub fn span(a: f64, b: f64, n: usize) -> Series {
         match n {
@@ -55,7 +63,7 @@ impl Series {
         if !(a > 0.0 && b > 0.0) {
             return Err(format!("span_log needs both ends > 0, got {a} and {b}"));
         }
-        let (la, lb) = (a.ln(), b.ln());
+        let (la, lb) = (math::ln(a), math::ln(b));
         Ok(Series::span(la, lb, n)
             .as_slice()
             .iter()
@@ -66,7 +74,7 @@ impl Series {
                 } else if k == n - 1 {
                     b
                 } else {
-                    x.exp()
+                    math::exp(*x)
                 }
             })
             .collect())
@@ -106,8 +114,11 @@ impl Series {
         }
     }
 
+    /// Sum by pairwise summation (error O(log n · ε) instead of O(n · ε)), in numpy's
+    /// arrangement, so sums agree with numpy's bit for bit.
     pub fn sum(&self) -> f64 {
-        self.0.iter().sum()
+        let v = self.as_slice();
+        pairwise(0, v.len(), &|i| v[i])
     }
     pub fn mean(&self) -> f64 {
         if self.is_empty() { f64::NAN } else { self.sum() / self.len() as f64 }
@@ -119,7 +130,8 @@ impl Series {
             return f64::NAN;
         }
         let m = self.mean();
-        let ss: f64 = self.0.iter().map(|x| (x - m) * (x - m)).sum();
+        let v = self.as_slice();
+        let ss = pairwise(0, n, &|i| (v[i] - m) * (v[i] - m));
         (ss / (n - 1) as f64).sqrt()
     }
     pub fn min(&self) -> f64 {
@@ -179,5 +191,41 @@ impl Series {
             return Err(format!("mask length {} differs from series length {}", mask.len(), self.len()));
         }
         Ok(self.0.iter().zip(mask.as_slice()).filter(|(_, m)| **m != 0.0).map(|(x, _)| *x).collect())
+    }
+}
+
+/// Σ f(i) for i in start..start+n by pairwise summation, arranged as numpy's `pairwise_sum`
+/// (numpy/_core/src/umath/loops_utils.h.src): below 8 terms a plain loop, up to 128 terms eight
+/// running sums combined as ((r0+r1)+(r2+r3))+((r4+r5)+(r6+r7)), above that the two halves
+/// (the first a multiple of 8 long) summed separately.
+pub fn pairwise(start: usize, n: usize, f: &impl Fn(usize) -> f64) -> f64 {
+    if n < 8 {
+        let mut res = 0.0;
+        for i in start..start + n {
+            res += f(i);
+        }
+        res
+    } else if n <= 128 {
+        let mut r = [0.0f64; 8];
+        for (j, rj) in r.iter_mut().enumerate() {
+            *rj = f(start + j);
+        }
+        let whole = n - n % 8;
+        let mut i = 8;
+        while i < whole {
+            for (j, rj) in r.iter_mut().enumerate() {
+                *rj += f(start + i + j);
+            }
+            i += 8;
+        }
+        let mut res = ((r[0] + r[1]) + (r[2] + r[3])) + ((r[4] + r[5]) + (r[6] + r[7]));
+        for k in whole..n {
+            res += f(start + k);
+        }
+        res
+    } else {
+        let mut half = n / 2;
+        half -= half % 8;
+        pairwise(start, half, f) + pairwise(start + half, n - half, f)
     }
 }

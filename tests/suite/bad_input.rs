@@ -358,11 +358,8 @@ fn random_and_mutated_scripts_never_panic() {
     let mut panics = Vec::new();
     // A demo that takes long (a full error budget) is mutated only a few times.
     let mut slow_runs = vec![0usize; demos.len()];
-    for k in 0..600 {
-        // Bounded in time as well as in count, so a slow machine still finishes quickly.
-        if start.elapsed().as_secs() >= 12 {
-            break;
-        }
+    // Bounded in count, not in time: the same scripts run on a fast and on a loaded machine.
+    for k in 0..150 {
         let pick = rng.below(demos.len());
         let text = if k % 4 == 0 || slow_runs[pick] >= 3 {
             let n = rng.below(200);
@@ -405,7 +402,7 @@ fn random_and_mutated_scripts_never_panic() {
         }
     }
     eprintln!("{runs} random or mutated scripts, {} s", start.elapsed().as_secs());
-    assert!(runs >= 100, "only {runs} scripts in the time budget");
+    assert_eq!(runs, 150);
     assert!(panics.is_empty(), "{} of {runs} scripts panicked; the first:\n{}", panics.len(), panics[0]);
 }
 
@@ -415,7 +412,7 @@ fn random_and_mutated_scripts_never_panic() {
 #[test]
 fn every_function_rejects_wrong_arguments() {
     use tickwork::engine::docs;
-    let mut names: Vec<&str> = docs::all().iter().map(|d| d.name).collect();
+    let mut names: Vec<&str> = docs::all().iter().map(|d| d.name.as_str()).collect();
     names.sort();
     names.dedup();
     let mut problems = Vec::new();

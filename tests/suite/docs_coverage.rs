@@ -1,59 +1,42 @@
-//! Every script function is documented, and every documentation entry names a function that
-//! exists: for each registration module, the names it registers equal the names in its DOCS.
-use std::collections::BTreeSet;
-use std::path::Path;
-
-use rhai::Engine;
-use tickwork::engine::docs::Doc;
-use tickwork::engine::sandbox::Sandbox;
-use tickwork::engine::session::{Session, Shared};
-use tickwork::engine::{core_api, physics_api, report_api, series_api, timing_api};
-
-/// Names a module registers that a user calls by name (not operators, indexers, internal
-/// markers or the display hooks that print and string interpolation use).
-fn registered(register: impl FnOnce(&mut Engine)) -> BTreeSet<String> {
-    let mut e = Engine::new_raw();
-    register(&mut e);
-    e.gen_fn_signatures(false)
-        .iter()
-        .map(|sig| sig.split('(').next().unwrap_or("").trim().to_string())
-        .filter(|n| n.chars().next().is_some_and(char::is_alphabetic))
-        .filter(|n| !n.contains('$') && !["to_string", "to_debug", "print"].contains(&n.as_str()))
-        .collect()
-}
-
-fn documented(docs: &[Doc]) -> BTreeSet<String> {
-    docs.iter().map(|d| d.name.to_string()).collect()
-}
-
-fn session() -> Shared {
-    let dir = std::env::temp_dir();
-    Shared::new(Session::new("docs", Sandbox::new(Path::new("."), &dir, Path::new(".")).unwrap()))
-}
+//! Every script function carries its documentation from its registration, and the generated
+//! views of it (docs/functions.md, the editor definition file) are complete and current.
+use tickwork::engine::docs;
 
 #[test]
-fn each_module_documents_exactly_what_it_registers() {
-    let s = session();
-    let cases: Vec<(&str, BTreeSet<String>, BTreeSet<String>)> = vec![
-        ("core_api", registered(|e| core_api::register(e, &s)), documented(core_api::DOCS)),
-        ("series_api", registered(series_api::register), documented(series_api::DOCS)),
-        ("report_api", registered(|e| report_api::register(e, &s)), documented(report_api::DOCS)),
-        ("physics_api", registered(|e| physics_api::register(e, &s)), documented(physics_api::DOCS)),
-        ("timing_api", registered(|e| timing_api::register(e, &s)), documented(timing_api::DOCS)),
-    ];
-    for (module, reg, doc) in cases {
-        assert!(!reg.is_empty(), "{module} registers nothing");
-        let undocumented: Vec<_> = reg.difference(&doc).collect();
-        let phantom: Vec<_> = doc.difference(&reg).collect();
-        assert!(undocumented.is_empty(), "{module}: registered without a DOCS entry: {undocumented:?}");
-        assert!(phantom.is_empty(), "{module}: DOCS entries for functions it does not register: {phantom:?}");
-    }
+fn every_callable_function_is_documented_where_it_is_registered() {
+    let all = docs::registered(&docs::reference_engine());
+    assert!(all.len() > 100, "only {} functions registered", all.len());
+    let undocumented: Vec<&str> =
+        all.iter().filter(|r| docs::is_user_callable(&r.name) && r.doc.is_none()).map(|r| r.name.as_str()).collect();
+    assert!(undocumented.is_empty(), "registered without documentation (use engine::api::fun): {undocumented:?}");
 }
 
 #[test]
 fn every_entry_has_a_signature_and_a_summary() {
-    for d in tickwork::engine::docs::all() {
-        assert!(d.sig.contains(d.name), "signature of {} does not name it: {}", d.name, d.sig);
+    for d in docs::all() {
+        assert!(d.sig.contains(&format!("{}(", d.name)), "signature of {} does not name it: {}", d.name, d.sig);
         assert!(!d.summary.trim().is_empty(), "{} has no description", d.name);
     }
+}
+
+#[test]
+fn functions_reference_is_current() {
+    let path = concat!(env!("CARGO_MANIFEST_DIR"), "/docs/functions.md");
+    let on_disk = std::fs::read_to_string(path).unwrap_or_default();
+    assert!(
+        on_disk == docs::markdown(),
+        "docs/functions.md is stale: regenerate it with `cargo run --release -- doc --markdown > docs/functions.md`"
+    );
+}
+
+#[test]
+fn definitions_use_script_types_only() {
+    let defs = docs::definitions();
+    assert!(defs.starts_with("module static;"), "not a definition file");
+    for bad in ["::", "&mut", "&str", "Dynamic", "ImmutableString", "i64", "f64", "INT", "FLOAT", "?", "Box<"] {
+        assert!(!defs.contains(bad), "definition file contains a Rust type or path ({bad})");
+    }
+    // Every documented form is one `fn` line.
+    assert_eq!(defs.lines().filter(|l| l.starts_with("fn ")).count(), docs::all().len());
+    assert!(defs.contains("fn nmos(p: Process, w: float, l: float) -> Mos;"), "nmos not defined with script types");
 }

@@ -74,7 +74,14 @@ fn defs_writes_every_documented_and_registered_function() {
     for must in ["eng", "span", "show", "plot", "process", "osc"] {
         assert!(names.contains(&must), "defs.json lacks {must}");
     }
-    assert!(v["registered"].as_array().unwrap().len() > 50);
+    let nmos = v["functions"].as_array().unwrap().iter().find(|f| f["name"] == "nmos").unwrap();
+    assert_eq!(nmos["params"][0]["type"], "Process");
+    assert_eq!(nmos["result"], "Mos");
+    // The default is the editor definition file with script-level types.
+    let o = p.tickwork(&["defs"]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let d = std::fs::read_to_string(p.path().join("tickwork.d.rhai")).unwrap();
+    assert!(d.starts_with("module static;") && d.contains("fn osc(kind: string, params: map) -> Oscillator;"), "{d}");
 }
 
 #[test]

@@ -34,6 +34,8 @@ pub const MAX_POINTS_PER_PHASE: usize = 10_000;
 pub const RTOL: f64 = 1e-10;
 /// Relative band within which a cycle counts as settled onto the steady-state period.
 pub const SETTLE_RTOL: f64 = 1e-6;
+/// Relative tolerances the integrator accepts.
+pub const RTOL_RANGE: std::ops::RangeInclusive<f64> = 1e-13..=1e-4;
 
 /// Options of a run.
 #[derive(Clone, Debug, Default)]
@@ -134,8 +136,12 @@ pub fn simulate_masked(o: &Osc, mask: Mask, cycles: usize, opts: &Options) -> Re
         None => (1_000_000 / (n_ph * cycles)).clamp(2, 64),
     };
     let rtol = opts.rtol.unwrap_or(RTOL);
-    if !(1e-13..=1e-4).contains(&rtol) {
-        return Err(format!("simulate: 'rtol' must be in 1e-13..=1e-4, got {rtol}"));
+    if !RTOL_RANGE.contains(&rtol) {
+        return Err(format!(
+            "simulate: 'rtol' must be in {:e}..={:e}, got {rtol}",
+            RTOL_RANGE.start(),
+            RTOL_RANGE.end()
+        ));
     }
     let vdd = o.env.vdd;
     for (key, val, node) in [("v0", opts.v0, 0), ("v0_b", opts.v0_b, 1)] {
