@@ -1,1 +1,19 @@
-//! Sweeps, corners, Monte Carlo, sensitivity, tempco, trim, noise and fits (later issues).
+//! Analyses of an oscillator built on the timing layer: sensitivities, tempco and supply
+//! coefficient, jitter and phase noise, and least-squares fits of data. Plain Rust; each
+//! analysis calls the oscillator only through `Osc::with`, `at`, `period` and `cycle`.
+pub mod fit_curve;
+pub mod fit_linear;
+pub mod jitter;
+pub mod phase_noise;
+pub mod sensitivity;
+pub mod stats;
+pub mod tempco;
+
+/// A test oscillator: the basic keys c = 1 pF, i = 1 µA, v_lo = 0.6 V, v_hi = 1.2 V and `extra`.
+#[cfg(test)]
+pub(crate) fn test_osc(kind: crate::timing::Kind, extra: &[(&str, f64)]) -> crate::timing::Osc {
+    let mut p: Vec<(String, f64)> =
+        [("c", 1e-12), ("i", 1e-6), ("v_lo", 0.6), ("v_hi", 1.2)].iter().map(|(k, v)| (k.to_string(), *v)).collect();
+    p.extend(extra.iter().map(|(k, v)| (k.to_string(), *v)));
+    crate::timing::Osc::new(kind, &p).unwrap()
+}

@@ -1,9 +1,11 @@
 //! The scripting engine: Rhai set-up, the source pre-pass, module resolution, sandboxed file
 //! access, and registration of every native module. The only layer that knows about Rhai.
+pub mod analysis_api;
 pub mod api;
 pub mod core_api;
 pub mod docs;
 pub mod errors;
+pub mod fit_api;
 pub mod physics_api;
 pub mod prepass;
 pub mod report_api;
@@ -65,5 +67,7 @@ pub fn build(session: &Shared, max_ops: u64) -> Engine {
     report_api::register(&mut engine, session);
     physics_api::register(&mut engine, session);
     timing_api::register(&mut engine, session);
+    analysis_api::register(&mut engine);
+    fit_api::register(&mut engine, session);
     engine
 }

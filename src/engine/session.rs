@@ -51,6 +51,10 @@ impl Session {
     pub fn read_input(&mut self, rel: &str) -> Result<String, String> {
         use sha2::{Digest, Sha256};
         let path = self.sandbox.readable(rel)?;
+        // A FIFO or a device would block or never end; only plain files are data.
+        if !std::fs::metadata(&path).map(|m| m.is_file()).unwrap_or(false) {
+            return Err(format!("'{rel}' is not a regular file"));
+        }
         let bytes = std::fs::read(&path).map_err(|e| format!("cannot read '{rel}': {e}"))?;
         let hash: String = Sha256::digest(&bytes).iter().map(|b| format!("{b:02x}")).collect();
         let shown = path.strip_prefix(&self.sandbox.root).unwrap_or(&path).display().to_string();

@@ -143,8 +143,10 @@ fn cycles_arg(v: &Dynamic) -> R<usize> {
 }
 
 /// Options of `simulate`, each checked and named in errors.
-fn sim_options(m: &Map) -> R<Options> {
+fn sim_options(m: &Map, session_seed: u64) -> R<Options> {
     let mut o = Options::default();
+    let mut noise = false;
+    let mut seed = session_seed;
     for (k, v) in m {
         let num = |unit: &str| -> R<f64> {
             to_f64(v).map_err(|_| {
@@ -164,13 +166,30 @@ fn sim_options(m: &Map) -> R<Options> {
             "v0" => o.v0 = Some(num("V")?),
             "v0_b" => o.v0_b = Some(num("V")?),
             "rtol" => o.rtol = Some(num("1")?),
+            "noise" => {
+                noise = v
+                    .as_bool()
+                    .map_err(|_| format!("simulate: option 'noise' must be true or false, found {}", v.type_name()))?
+            }
+            "seed" => {
+                let n = v
+                    .as_int()
+                    .map_err(|_| format!("simulate: option 'seed' must be an integer, found {}", v.type_name()))?;
+                if n < 0 {
+                    return Err(format!("simulate: option 'seed' must be a non-negative integer, got {n}").into());
+                }
+                seed = n as u64;
+            }
             other => {
                 return Err(format!(
-                    "simulate: unknown option '{other}'; the options are points_per_phase, v0, v0_b, rtol"
+                    "simulate: unknown option '{other}'; the options are points_per_phase, v0, v0_b, rtol, noise, seed"
                 )
                 .into());
             }
         }
+    }
+    if noise {
+        o.noise_seed = Some(seed);
     }
     Ok(o)
 }
@@ -281,7 +300,7 @@ fn from_process(pr: &Process, k: &str, mut m: Map) -> R<Osc> {
     lift(osc_from(pr, kind, Choices { cap_type, mirror, res_type }, &pairs(&what, &m)?))
 }
 
-pub fn register(engine: &mut Engine, _session: &Shared) {
+pub fn register(engine: &mut Engine, session: &Shared) {
     engine.register_type_with_name::<Osc>("Oscillator");
     engine.register_fn("to_string", |o: &mut Osc| describe(o));
     engine.register_fn("to_debug", |o: &mut Osc| describe(o));
@@ -436,16 +455,18 @@ pub fn register(engine: &mut Engine, _session: &Shared) {
             Ok(transient_map(lift(simulate(o, cycles_arg(&cycles)?, &Options::default()))?))
         },
     );
+    let s = session.clone();
     api::fun(
         engine,
         "o.simulate(cycles: int, options: map) -> map",
         &format!(
-            "as o.simulate(cycles), with options points_per_phase (0..={MAX_POINTS_PER_PHASE} waveform samples per phase; default 64, fewer for long runs), v0 (V, start voltage of the node, capacitor A or X), v0_b (V, start of pingpong capacitor B), rtol (integrator relative tolerance, {:e}..={:e}, default {RTOL:e})",
+            "as o.simulate(cycles), with options points_per_phase (0..={MAX_POINTS_PER_PHASE} waveform samples per phase; default 64, fewer for long runs), v0 (V, start voltage of the node, capacitor A or X), v0_b (V, start of pingpong capacitor B), rtol (integrator relative tolerance, {:e}..={:e}, default {RTOL:e}), noise (true: the white noise sources of the keys i_noise, vn_cmp with cmp_nbw, vn_ref in every ramp and decision, by exact first-passage sampling; reproducible with the run's --seed), seed (integer, replaces the run's seed for this call)",
             RTOL_RANGE.start(),
             RTOL_RANGE.end()
         ),
-        |o: &mut Osc, cycles: Dynamic, opts: Map| -> R<Map> {
-            Ok(transient_map(lift(simulate(o, cycles_arg(&cycles)?, &sim_options(&opts)?))?))
+        move |o: &mut Osc, cycles: Dynamic, opts: Map| -> R<Map> {
+            let seed = s.lock().seed;
+            Ok(transient_map(lift(simulate(o, cycles_arg(&cycles)?, &sim_options(&opts, seed)?))?))
         },
     );
     api::fun(

@@ -221,6 +221,30 @@ pub const KEYS: &[KeyDef] = &[
     k!("t_logic", "s", Value(0.0), 0.0, 1.0, false, Some(P::LogicDelay), "logic (inverter, driver) delay"),
     k!("t_sw", "s", Value(0.0), 0.0, 1.0, false, Some(P::SwitchDelay), "switch turn-over time"),
     k!("t_reset", "s", Value(0.0), 0.0, 1.0, false, Some(P::Reset), "reset pulse width"),
+    // Noise sources (no effect on the period; read by o.jitter() and simulate(…, #{noise: true})).
+    k!(
+        "i_noise",
+        "A/√Hz",
+        Value(0.0),
+        0.0,
+        1.0,
+        false,
+        None,
+        "white noise density of each charging current (one-sided)"
+    ),
+    k!("i_flicker_fc", "Hz", Value(0.0), 0.0, 1e12, false, None, "flicker corner of the current noise (0: white only)"),
+    k!("vn_cmp", "V/√Hz", Value(0.0), 0.0, 1.0, false, None, "input-referred white noise density of each comparator"),
+    k!(
+        "cmp_nbw",
+        "Hz",
+        Value(0.0),
+        0.0,
+        1e15,
+        false,
+        None,
+        "noise bandwidth of the comparator input (default (π/2)·cmp_gbw/cmp_a0)"
+    ),
+    k!("vn_ref", "V", Value(0.0), 0.0, 1.0, false, None, "rms noise of each threshold reference at a decision"),
     k!("r_reset", "Ω", Value(0.0), 0.0, 1e12, false, Some(P::Reset), "on-resistance of the reset switch"),
     // Device sizes of oscillators built from a process (osc_from).
     k!("mirror_w", "m", Value(4e-6), 0.0, 1e-3, true, None, "width of the unit mirror device (process models)"),

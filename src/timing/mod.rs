@@ -11,6 +11,7 @@ pub mod budget;
 pub mod env;
 pub mod from_process;
 pub mod keys;
+pub mod noise;
 pub mod osc;
 pub mod parasitic;
 pub mod parts;

@@ -1,6 +1,8 @@
 //! The integration tests, one binary: linking one test executable instead of two dozen keeps
 //! the test build short on small machines. Each module is one area; every external check names
 //! its source beside it.
+mod analysis_fit;
+mod analysis_noise;
 mod architecture;
 mod bad_input;
 mod cli_util;
@@ -23,6 +25,7 @@ mod report_plot;
 mod report_run;
 mod series_math;
 mod stdlib_modules;
+mod timing_noise;
 mod timing_process;
 mod timing_properties;
 mod timing_references;

@@ -23,13 +23,13 @@ impl Topology for PingPong {
         &[
             "c", "i", "v_lo", "v_hi", "vdd", "temp", "tc_i", "tc_c", "c_vc1", "c_vc2", "c_swn", "c_swp", "sw_phi",
             "sw_m", "c_in", "r_out", "v_ds_ref", "c_mismatch", "vos", "t_cmp", "cmp_gbw", "cmp_a0", "cmp_slew",
-            "cmp_vsw", "t_latch", "t_logic", "t_sw", "r_reset",
+            "cmp_vsw", "t_latch", "t_logic", "t_sw", "r_reset", "i_noise", "i_flicker_fc", "vn_cmp", "cmp_nbw", "vn_ref",
         ]
     }
     fn process_keys(&self) -> &'static [&'static str] {
         &[
             "c", "i", "v_lo", "v_hi", "vdd", "temp", "mirror_w", "mirror_l", "sw_w", "sw_l", "cmp_w", "cmp_l",
-            "cmp_itail", "cmp_cload", "cmp_vsw", "t_cmp", "vos", "c_mismatch", "t_latch", "t_logic", "t_sw",
+            "cmp_itail", "cmp_cload", "cmp_vsw", "t_cmp", "vos", "c_mismatch", "t_latch", "t_logic", "t_sw", "i_noise", "i_flicker_fc", "vn_cmp", "cmp_nbw", "vn_ref",
         ]
     }
     fn check_required(&self, p: &Params) -> Result<(), String> {

@@ -25,13 +25,13 @@ impl Topology for Schmitt {
         &[
             "c", "i", "r", "v_lo", "v_hi", "vdd", "temp", "vtn", "vtp", "ratio_n", "ratio_p", "tc_vt", "tc_i", "tc_r",
             "tc_c", "r_vc", "c_vc1", "c_vc2", "c_swn", "c_swp", "sw_phi", "sw_m", "c_in", "r_out", "v_ds_ref",
-            "i_mismatch", "vos_hi", "vos_lo", "t_cmp", "cmp_gbw", "cmp_a0", "cmp_slew", "cmp_vsw", "t_logic", "t_sw",
+            "i_mismatch", "vos_hi", "vos_lo", "t_cmp", "cmp_gbw", "cmp_a0", "cmp_slew", "cmp_vsw", "t_logic", "t_sw", "i_noise", "i_flicker_fc", "vn_cmp", "cmp_nbw", "vn_ref",
         ]
     }
     fn process_keys(&self) -> &'static [&'static str] {
         &[
             "c", "i", "vdd", "temp", "ratio_n", "ratio_p", "mirror_w", "mirror_l", "sw_w", "sw_l", "c_in",
-            "i_mismatch", "vos_hi", "vos_lo", "t_cmp", "t_logic", "t_sw",
+            "i_mismatch", "vos_hi", "vos_lo", "t_cmp", "t_logic", "t_sw", "i_noise", "i_flicker_fc", "vn_cmp", "cmp_nbw", "vn_ref",
         ]
     }
     fn check_required(&self, p: &Params) -> Result<(), String> {

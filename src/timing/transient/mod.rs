@@ -16,6 +16,7 @@
 //! cubic Hermite interpolants between accepted steps, for plots; events, periods and voltage
 //! extremes come from the integrator's own points.
 pub mod circuit;
+pub mod noisy;
 pub mod stepper;
 
 use circuit::{Circuit, End, Phase};
@@ -49,6 +50,9 @@ pub struct Options {
     pub v0_b: Option<f64>,
     /// Relative tolerance of the integrator (default `RTOL`).
     pub rtol: Option<f64>,
+    /// With the white noise sources of the oscillator's noise keys, drawn from this seed
+    /// (`noisy.rs`); None for the noiseless run.
+    pub noise_seed: Option<u64>,
 }
 
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -159,12 +163,24 @@ pub fn simulate_masked(o: &Osc, mask: Mask, cycles: usize, opts: &Options) -> Re
     // than one near the top.
     let tol = Tol { rtol, atol: rtol * vdd };
     let mut run = Run::new(&c, tol, ppp, cycles);
-    for _ in 0..cycles {
+    if let Some(seed) = opts.noise_seed {
+        let noise = super::noise::Noise::of(o)?;
+        if noise.is_silent() {
+            return Err(format!(
+                "simulate(\"{kind}\"): noise: true needs a noise source: set 'i_noise' (A/√Hz), 'vn_cmp' (V/√Hz, with 'cmp_nbw') or 'vn_ref' (V)"
+            ));
+        }
+        run.noise = Some(noisy::Draws::new(&noise, &view, &c, seed));
+    }
+    for k in 0..cycles {
         let t_cycle = run.t;
         let mut duty_len = 0.0;
-        for ph in &c.phases {
+        if let Some(d) = run.noise.as_mut() {
+            d.start_cycle(k);
+        }
+        for (n_ph, ph) in c.phases.iter().enumerate() {
             let t0 = run.t;
-            run.phase(ph)
+            run.phase(n_ph, ph)
                 .map_err(|e| format!("simulate(\"{kind}\"), phase '{}' at t = {:.6e} s: {e}", ph.name, run.t))?;
             if std::ptr::eq(ph, &c.phases[c.duty_phase]) {
                 duty_len = run.t - t0;
@@ -236,6 +252,8 @@ struct Run {
     v_min: f64,
     v_max: f64,
     steps: usize,
+    /// Noise draws of a noisy run.
+    noise: Option<noisy::Draws>,
 }
 
 impl Run {
@@ -258,6 +276,7 @@ impl Run {
             v_min: f64::INFINITY,
             v_max: f64::NEG_INFINITY,
             steps: 0,
+            noise: None,
         };
         r.track();
         r
@@ -310,7 +329,7 @@ impl Run {
     }
 
     /// One phase: ramp to the threshold (or a timed pulse), delay chain, switch action.
-    fn phase(&mut self, ph: &Phase) -> Result<(), String> {
+    fn phase(&mut self, k: usize, ph: &Phase) -> Result<(), String> {
         let t0 = self.t;
         self.f = ph.rates(&self.y);
         self.buf.clear();
@@ -321,7 +340,11 @@ impl Run {
                 self.event(EventKind::Switch, ph, self.y[0]);
             }
             End::Threshold { node, level, rising, cmp, chain } => {
-                let (node, level, rising) = (*node, *level, *rising);
+                let (node, rising) = (*node, *rising);
+                let level = match self.noise.as_mut() {
+                    Some(d) => d.level(*level, rising),
+                    None => *level,
+                };
                 let past = |x: f64| if rising { x >= level } else { x <= level };
                 let g = |y: &State| (ph.rate[node])(y[node]);
                 let v_cross = if past(self.y[node]) {
@@ -358,6 +381,14 @@ impl Run {
                             let (s, ys) = crossing(ph, &self.y, &self.f, &a, node, level, self.t)?;
                             let fs = ph.rates(&ys);
                             self.accept(ph, self.t + s, ys, fs);
+                            // The current noise moves the first passage only (the node is at
+                            // the threshold either way).
+                            if let Some(d) = self.noise.as_mut() {
+                                self.t = t0 + d.ramp_time(k, self.t - t0);
+                                if let Some(last) = self.buf.last_mut() {
+                                    last.0 = self.t;
+                                }
+                            }
                             break;
                         }
                         self.h = a.next_h;
