@@ -76,22 +76,48 @@ pub(crate) type NodeFn<'a> = Rc<dyn Fn(f64) -> f64 + 'a>;
 /// One ramp from `v0` toward threshold `vth` under signed current `i`, then the delay chain
 /// (`delay(slope)` of the slope at the threshold) during which the ramp runs on: the overshoot.
 /// A start already beyond the threshold trips at once.
-pub(crate) fn ramp_phase(
+pub(crate) fn ramp_phase<C, I, D>(
     name: &'static str,
-    c: &dyn Fn(f64) -> f64,
-    i: &dyn Fn(f64) -> f64,
+    c: &C,
+    i: &I,
     v0: f64,
     vth: f64,
-    delay: &dyn Fn(f64) -> f64,
-) -> Result<PhaseTiming, String> {
-    let rising = i(v0) > 0.0;
-    let past = if rising { v0 >= vth } else { v0 <= vth };
-    let (ramp, v_cross) =
-        if past { (0.0, v0) } else { (ramp_time(c, i, v0, vth).map_err(|e| format!("{name}: {e}"))?, vth) };
+    delay: &D,
+) -> Result<PhaseTiming, String>
+where
+    C: Fn(f64) -> f64 + ?Sized,
+    I: Fn(f64) -> f64 + ?Sized,
+    D: Fn(f64) -> f64 + ?Sized,
+{
+    let past = is_past(i, v0, vth);
+    let ramp = if past { 0.0 } else { ramp_time(c, i, v0, vth).map_err(|e| format!("{name}: {e}"))? };
+    let e = overshoot(c, i, if past { v0 } else { vth }, delay)?;
+    Ok(PhaseTiming { name, v_start: v0, v_threshold: vth, v_end: e.v_end, ramp, delay: e.delay, slope: e.slope })
+}
+
+/// Whether a ramp under `i` starting at `v0` is already beyond its threshold `vth`.
+pub(crate) fn is_past<I: Fn(f64) -> f64 + ?Sized>(i: &I, v0: f64, vth: f64) -> bool {
+    if i(v0) > 0.0 { v0 >= vth } else { v0 <= vth }
+}
+
+/// What the delay chain does after a crossing at `v_cross`: the slope there, the delay at that
+/// slope, and where the node is when the current turns over.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub(crate) struct Overshoot {
+    pub slope: f64,
+    pub delay: f64,
+    pub v_end: f64,
+}
+
+pub(crate) fn overshoot<C, I, D>(c: &C, i: &I, v_cross: f64, delay: &D) -> Result<Overshoot, String>
+where
+    C: Fn(f64) -> f64 + ?Sized,
+    I: Fn(f64) -> f64 + ?Sized,
+    D: Fn(f64) -> f64 + ?Sized,
+{
     let slope = i(v_cross) / c(v_cross);
     let d = delay(slope);
-    let v_end = advance(c, i, v_cross, d)?;
-    Ok(PhaseTiming { name, v_start: v0, v_threshold: vth, v_end, ramp, delay: d, slope })
+    Ok(Overshoot { slope, delay: d, v_end: advance(c, i, v_cross, d)? })
 }
 
 /// Error if a current-source node leaves the supply range (the sources would saturate there,

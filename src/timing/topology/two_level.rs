@@ -3,11 +3,12 @@
 //! cycle and the transient circuit.
 use std::rc::Rc;
 
+use super::super::osc::PhaseTiming;
 use super::super::osc::{Cycle, Osc, View};
-use super::super::ramp::steady;
+use super::super::ramp::{ramp_integral, ramp_time, steady};
 use super::super::thresholds::schmitt_cmos;
 use super::super::transient::circuit::{Circuit, End, Phase, rate, zero};
-use super::{NodeFn, check_rails, ramp_phase};
+use super::{NodeFn, Overshoot, check_rails, is_past, overshoot};
 
 /// Ideal window / current-starved Schmitt oscillator: T = 2·C·(V_hi − V_lo)/I (common practice:
 /// charge balance C·ΔV = I·t over each of two equal ramps).
@@ -107,29 +108,122 @@ pub(crate) fn node<'a>(v: &'a View<'_>, latch: bool) -> Result<Node<'a>, String>
 
 pub fn cycle(v: &View, latch: bool) -> Result<Cycle, String> {
     let n = node(v, latch)?;
-    let (lo, hi, rc, vdd) = (n.lo, n.hi, n.rc, v.env.vdd);
-    let d_hi = |s: f64| v.delay_hi(s) + v.chain(n.latch);
-    let d_lo = |s: f64| v.delay_lo(s) + v.chain(n.latch);
-    let one = |valley: f64| {
-        let a = ramp_phase("charge", &*n.c, &*n.up, valley, hi, &d_hi)?;
-        let b = ramp_phase("discharge", &*n.c, &*n.dn, a.v_end, lo, &d_lo)?;
-        Ok::<_, String>((a, b))
-    };
-    let ((a, b), iterations) = steady(|[x]| one(x).map(|(a, b)| ([b.v_end], (a, b))), [lo])?;
-    let period = a.ramp + a.delay + b.ramp + b.delay;
-    let cy = Cycle {
-        period,
-        duty: (a.ramp + a.delay) / period,
-        v_peak: a.v_end.max(a.v_start),
-        v_valley: b.v_end.min(b.v_start),
-        overshoot: (a.v_end - a.v_threshold).max(b.v_threshold - b.v_end),
-        phases: vec![a, b],
-        iterations,
-    };
-    if !rc {
-        check_rails(&cy, vdd)?;
+    TwoLevel {
+        c: &*n.c,
+        up: &*n.up,
+        dn: &*n.dn,
+        d_hi: &|s: f64| v.delay_hi(s) + v.chain(n.latch),
+        d_lo: &|s: f64| v.delay_lo(s) + v.chain(n.latch),
+        lo: n.lo,
+        hi: n.hi,
+        rails: if n.rc { None } else { Some(v.env.vdd) },
+        checked: true,
     }
-    Ok(cy)
+    .cycle()
+}
+
+/// A two-threshold node as functions of its voltage: capacitance, charging and discharging
+/// currents, the delay after each threshold at the slope there; the thresholds with offsets,
+/// the supply if current sources must stay inside it, and whether the ramps check the current
+/// and capacitance along the way (`ramp_time`) or the caller has done so (`ramp_integral`).
+pub(crate) struct TwoLevel<'f, C: ?Sized, U: ?Sized, N: ?Sized, DH: ?Sized, DL: ?Sized> {
+    pub c: &'f C,
+    pub up: &'f U,
+    pub dn: &'f N,
+    pub d_hi: &'f DH,
+    pub d_lo: &'f DL,
+    pub lo: f64,
+    pub hi: f64,
+    pub rails: Option<f64>,
+    pub checked: bool,
+}
+
+/// The overshoot after a crossing at `v_cross`, from `memo` if it was computed for the same
+/// crossing (in the steady state every cycle crosses at the same voltages).
+fn overshoot_at<C, I, D>(
+    memo: &mut Option<(f64, Overshoot)>,
+    c: &C,
+    i: &I,
+    v_cross: f64,
+    d: &D,
+) -> Result<Overshoot, String>
+where
+    C: Fn(f64) -> f64 + ?Sized,
+    I: Fn(f64) -> f64 + ?Sized,
+    D: Fn(f64) -> f64 + ?Sized,
+{
+    if let Some((k, e)) = *memo
+        && k == v_cross
+    {
+        return Ok(e);
+    }
+    let e = overshoot(c, i, v_cross, d)?;
+    *memo = Some((v_cross, e));
+    Ok(e)
+}
+
+impl<C, U, N, DH, DL> TwoLevel<'_, C, U, N, DH, DL>
+where
+    C: Fn(f64) -> f64 + ?Sized,
+    U: Fn(f64) -> f64 + ?Sized,
+    N: Fn(f64) -> f64 + ?Sized,
+    DH: Fn(f64) -> f64 + ?Sized,
+    DL: Fn(f64) -> f64 + ?Sized,
+{
+    /// The cycle in periodic steady state. Where a cycle ends depends only on where the node
+    /// crosses each threshold and on the overshoot there, not on the ramp times, so the
+    /// steady-state iteration runs on those end points alone (each overshoot computed once per
+    /// crossing voltage) and the two ramps are integrated once, for the last cycle.
+    pub fn cycle(&self) -> Result<Cycle, String> {
+        let (lo, hi) = (self.lo, self.hi);
+        let (mut memo_a, mut memo_b) = (None, None);
+        let ((x, past_a, ea, past_b, eb), iterations) = steady(
+            |[x]| {
+                let past_a = is_past(self.up, x, hi);
+                let ea = overshoot_at(&mut memo_a, self.c, self.up, if past_a { x } else { hi }, self.d_hi)?;
+                let past_b = is_past(self.dn, ea.v_end, lo);
+                let eb = overshoot_at(&mut memo_b, self.c, self.dn, if past_b { ea.v_end } else { lo }, self.d_lo)?;
+                Ok(([eb.v_end], (x, past_a, ea, past_b, eb)))
+            },
+            [lo],
+        )?;
+        let a = PhaseTiming {
+            name: "charge",
+            v_start: x,
+            v_threshold: hi,
+            v_end: ea.v_end,
+            ramp: if past_a { 0.0 } else { self.ramp(self.up, x, hi).map_err(|e| format!("charge: {e}"))? },
+            delay: ea.delay,
+            slope: ea.slope,
+        };
+        let b = PhaseTiming {
+            name: "discharge",
+            v_start: ea.v_end,
+            v_threshold: lo,
+            v_end: eb.v_end,
+            ramp: if past_b { 0.0 } else { self.ramp(self.dn, ea.v_end, lo).map_err(|e| format!("discharge: {e}"))? },
+            delay: eb.delay,
+            slope: eb.slope,
+        };
+        let period = a.ramp + a.delay + b.ramp + b.delay;
+        let cy = Cycle {
+            period,
+            duty: (a.ramp + a.delay) / period,
+            v_peak: a.v_end.max(a.v_start),
+            v_valley: b.v_end.min(b.v_start),
+            overshoot: (a.v_end - a.v_threshold).max(b.v_threshold - b.v_end),
+            phases: vec![a, b],
+            iterations,
+        };
+        if let Some(vdd) = self.rails {
+            check_rails(&cy, vdd)?;
+        }
+        Ok(cy)
+    }
+
+    fn ramp<I: Fn(f64) -> f64 + ?Sized>(&self, i: &I, v0: f64, v1: f64) -> Result<f64, String> {
+        if self.checked { ramp_time(self.c, i, v0, v1) } else { ramp_integral(self.c, i, v0, v1) }
+    }
 }
 
 /// Window and Schmitt oscillators. Start: the node at the low threshold (with offset), charging.
