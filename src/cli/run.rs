@@ -138,12 +138,7 @@ fn run_one(a: &RunArgs, file: &Path, sets: &BTreeMap<String, String>) -> i32 {
     let failed = g.report.failed();
     if !failed.is_empty() {
         for m in &failed {
-            eprintln!(
-                "{shown}: metric '{}' = {} fails its spec {}",
-                m.name,
-                report::format::value(m.value, &m.unit, 4),
-                m.spec.text(&m.unit)
-            );
+            eprintln!("{shown}: metric '{}' = {} fails its spec {}", m.name, m.value_text(), m.spec.text(&m.unit));
         }
         return super::EXIT_SPEC_FAILED;
     }

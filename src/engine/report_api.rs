@@ -35,7 +35,7 @@ fn opt_bool(what: &str, m: &Map, key: &str) -> R<bool> {
 
 fn opt_digits(what: &str, m: &Map) -> R<usize> {
     match m.get("digits") {
-        None => Ok(3),
+        None => Ok(format::DIGITS),
         Some(v) => match v.as_int() {
             Ok(d) if (1..=17).contains(&d) => Ok(d as usize),
             _ => err(format!("{what}: key 'digits' must be an integer in 1..=17, found {v:?}")),
@@ -152,8 +152,8 @@ pub fn register(engine: &mut Engine, shared: &Shared) {
     let s = shared.clone();
     api::fun(
         engine,
-        "table(data, #{columns: [names], units: #{name: unit}, digits: int})",
-        "columns: which columns in which order; units: unit of each column, shown in its header (cells get SI prefixes); digits: significant digits (default 3)",
+        "table(data, #{columns: [names], units: #{name: unit}, headers: #{name: text}, hide_zero_rows: bool, digits: int})",
+        "columns: which columns in which order; units: unit of each column, shown in its header (cells get SI prefixes); headers: a column's header text, shown as given (the cells then carry the unit: 250 ns); hide_zero_rows: true leaves out rows whose numbers are all exactly 0 (a parasitic that is absent); digits: significant digits (default 3, as for show and metric)",
         move |data: Dynamic, opts: Map| -> R<()> { table(&s, &data, &opts) },
     );
 
@@ -259,8 +259,15 @@ fn cell(x: &Dynamic) -> Result<Cell, String> {
 }
 
 fn table(s: &Shared, data: &Dynamic, opts: &Map) -> R<()> {
-    check_keys("table", opts, &["columns", "units", "digits"])?;
+    check_keys("table", opts, &["columns", "units", "headers", "hide_zero_rows", "digits"])?;
     let digits = opt_digits("table", opts)?;
+    let hide_zero = opt_bool("table", opts, "hide_zero_rows")?;
+    let headers: Map = match opts.get("headers") {
+        None => Map::new(),
+        Some(h) => h.clone().try_cast::<Map>().ok_or_else(|| {
+            format!("table: key 'headers' must be a map of column name to header text, found {}", h.type_name())
+        })?,
+    };
     let units: Map = match opts.get("units") {
         None => Map::new(),
         Some(u) => u.clone().try_cast::<Map>().ok_or_else(|| {
@@ -322,18 +329,23 @@ fn table(s: &Shared, data: &Dynamic, opts: &Map) -> R<()> {
         }
         cols = picked;
     }
-    for k in units.keys() {
-        if !cols.iter().any(|(n, _)| n == k.as_str()) {
-            return err(format!("table: 'units' names column '{k}', which the table does not have"));
+    for (what, m) in [("units", &units), ("headers", &headers)] {
+        if let Some(k) = m.keys().find(|k| !cols.iter().any(|(n, _)| n == k.as_str())) {
+            return err(format!("table: '{what}' names column '{k}', which the table does not have"));
         }
+    }
+    if let Some((k, _)) = headers.iter().find(|(_, h)| !h.is_string()) {
+        return err(format!("table: 'headers' gives column '{k}' a value that is not a string; a header is text"));
     }
     let columns: Vec<Column> = cols
         .into_iter()
         .map(|(name, cells)| {
             let unit = units.get(name.as_str()).map(|u| u.to_string()).unwrap_or_default();
-            Column { name, unit, cells }
+            let header = headers.get(name.as_str()).map(|h| h.to_string());
+            Column { name, unit, cells, header }
         })
         .collect();
+    let columns = if hide_zero { Table::zero_rows_hidden(&columns) } else { columns };
     let t = Table::from_columns(&columns, digits).map_err(|e| format!("table: {e}"))?;
     let mut g = s.lock();
     if g.echo {
@@ -504,7 +516,7 @@ fn metric(s: &Shared, name: &str, v: &Dynamic, unit: &str, spec: &Map) -> R<()> 
             None => String::new(),
             Some(p) => format!(" (spec {}: {})", m.spec.text(unit), if p { "pass" } else { "FAIL" }),
         };
-        super::term::out(&format!("metric {name} = {}{verdict}", format::value(value, unit, 4)));
+        super::term::out(&format!("metric {name} = {}{verdict}", m.value_text()));
     }
     g.push(Item::Metric(m));
     Ok(())

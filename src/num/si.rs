@@ -62,7 +62,7 @@ pub fn suffix_exponent(suffix: &str) -> Result<i32, String> {
 }
 
 /// The prefix symbol for a multiple of 3 in [-30, 30] (micro printed as `µ`).
-fn prefix_symbol(exp3: i32) -> Option<&'static str> {
+pub fn prefix_symbol(exp3: i32) -> Option<&'static str> {
     if exp3 == 0 {
         return Some("");
     }

@@ -2,6 +2,10 @@
 //! that are never prefixed in circuit work (%, ppm, dB, °C, …), which get plain decimals.
 use crate::num::si::eng;
 
+/// Significant digits of a value in the report when the script asks for none: `show`,
+/// `table` and `metric` alike.
+pub const DIGITS: usize = 3;
+
 /// `x` for a table cell or tick whose unit is written elsewhere: `3.33µ`, `1.50`.
 /// A unit with a power (`m²`) keeps its unit, since a bare prefix would read as a prefix of
 /// the whole unit (`4p` of m² is 4 µm², not 4 pm²).

@@ -1,6 +1,5 @@
 //! Rendering a report as Markdown (GitHub-flavoured): title, provenance, the estimates note,
 //! the metrics summary, then each section's prose followed by its outputs in order.
-use super::format;
 use super::metric::Metric;
 use super::model::{Item, Report};
 use super::provenance::Provenance;
@@ -103,7 +102,7 @@ fn fence_for(t: &str) -> String {
 
 /// `metric` line: name, value, spec and verdict.
 fn metric_line(m: &Metric) -> String {
-    let v = format::value(m.value, &m.unit, 4);
+    let v = m.value_text();
     match m.pass() {
         None => format!("metric `{}` = {v}", m.name),
         Some(p) => format!("metric `{}` = {v}, spec {}: {}", m.name, m.spec.text(&m.unit), verdict(p)),
@@ -119,7 +118,7 @@ fn metrics_table(ms: &[&Metric]) -> String {
     for m in ms {
         let spec = if m.spec.is_open() { "—".to_string() } else { m.spec.text(&m.unit) };
         let res = m.pass().map(verdict).unwrap_or("—");
-        s.push_str(&format!("| `{}` | {} | {} | {} |\n", m.name, format::value(m.value, &m.unit, 4), spec, res));
+        s.push_str(&format!("| `{}` | {} | {} | {} |\n", m.name, m.value_text(), spec, res));
     }
     s
 }

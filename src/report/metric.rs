@@ -1,6 +1,7 @@
 //! Metrics: named figures of merit with an optional spec window, for `results.json`, the
 //! metrics history and the digest. Names are stable identifiers, so they are checked.
 use crate::num::si::eng;
+use crate::report::format;
 
 /// Longest accepted metric name.
 pub const MAX_NAME: usize = 64;
@@ -17,6 +18,11 @@ pub struct Spec {
 }
 
 impl Spec {
+    /// Whether `x` lies in the window (ends included).
+    pub fn contains(&self, x: f64) -> bool {
+        self.min.is_none_or(|a| x >= a) && self.max.is_none_or(|b| x <= b)
+    }
+
     pub fn is_open(&self) -> bool {
         self.min.is_none() && self.max.is_none()
     }
@@ -66,9 +72,24 @@ impl Metric {
         if self.spec.is_open() {
             return None;
         }
-        let lo = self.spec.min.is_none_or(|a| self.value >= a);
-        let hi = self.spec.max.is_none_or(|b| self.value <= b);
-        Some(lo && hi)
+        Some(self.spec.contains(self.value))
+    }
+
+    /// The value as the report shows it: [`format::DIGITS`] significant digits, as `show`
+    /// gives, or more (up to 9) where fewer would round it onto or across a spec limit, so
+    /// that the number shown passes or fails as the value does.
+    pub fn value_text(&self) -> String {
+        let at_limit = |x: f64| self.spec.min == Some(x) || self.spec.max == Some(x);
+        for d in format::DIGITS..=9 {
+            let shown: f64 = format!("{:.*e}", d - 1, self.value).parse().unwrap_or(self.value);
+            let same = self.spec.is_open()
+                || (self.spec.contains(shown) == self.spec.contains(self.value)
+                    && at_limit(shown) == at_limit(self.value));
+            if same {
+                return format::value(self.value, &self.unit, d);
+            }
+        }
+        format::value(self.value, &self.unit, 9)
     }
 }
 

@@ -20,6 +20,7 @@ mod prepass_robustness;
 mod readme_tour;
 mod repl_pipe;
 mod report_api;
+mod report_figures;
 mod report_markdown;
 mod report_plot;
 mod report_run;

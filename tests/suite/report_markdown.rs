@@ -63,6 +63,6 @@ fn estimates_note_only_with_design_figures() {
     r.sections[0].items.push(Item::Metric(Metric::new("osc.period", 2.5e-7, "s", Spec::default()).unwrap()));
     let md = render(&r, &prov());
     assert!(md.contains(ESTIMATES_NOTE));
-    assert!(md.contains("| `osc.period` | 250.0 ns | — | — |"), "{md}");
-    assert!(md.contains("- metric `osc.period` = 250.0 ns\n"), "{md}");
+    assert!(md.contains("| `osc.period` | 250 ns | — | — |"), "{md}");
+    assert!(md.contains("- metric `osc.period` = 250 ns\n"), "{md}");
 }

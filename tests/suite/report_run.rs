@@ -96,7 +96,10 @@ fn changing_a_constant_changes_only_dependent_lines() {
     );
     let starts: Vec<&str> = md.iter().map(|(x, _)| x.split(':').next().unwrap_or("")).collect();
     assert!(md[0].0.starts_with("- script: `clock.rhai` (SHA-256"), "{md:?}");
-    assert!(md.iter().any(|(x, y)| x.contains("1.800 µs") && y.contains("1.500 µs")), "{md:?}");
+    assert!(
+        md.iter().any(|(x, y)| x.contains("| `osc.period` | 1.80 µs") && y.contains("| `osc.period` | 1.50 µs")),
+        "{md:?}"
+    );
     assert!(md.iter().any(|(x, y)| x == "- **period**: 1.80 µs" && y == "- **period**: 1.50 µs"), "{md:?}");
     assert!(md.iter().any(|(x, y)| x == "charging with 1.00 µA" && y == "charging with 1.20 µA"), "{md:?}");
     assert!(!starts.iter().any(|s| s.contains("timing capacitor")), "C did not change: {md:?}");
@@ -136,7 +139,7 @@ fn markdown_structure() {
         "## Budget",
         "![Error budget](fig-02-error-budget.svg)",
         "![Supply spread](fig-03-supply-spread.svg)",
-        "- metric `osc.period` = 1.800 µs, spec 1.40 µs … 1.90 µs: pass",
+        "- metric `osc.period` = 1.80 µs, spec 1.40 µs … 1.90 µs: pass",
     ];
     let at: Vec<usize> = order.iter().map(|n| pos(n)).collect();
     assert!(at.windows(2).all(|w| w[0] < w[1]), "out of order: {at:?}\n{md}");
@@ -194,9 +197,9 @@ fn failed_spec_exits_3_and_is_marked() {
     let script = SCRIPT.replace("#{max: 5u}", "#{max: 4u}");
     let o = run(d.path(), &script, &[]);
     assert_eq!(o.status.code(), Some(3), "{}", String::from_utf8_lossy(&o.stderr));
-    assert!(String::from_utf8_lossy(&o.stderr).contains("metric 'osc.supply' = 4.200 µA fails its spec ≤ 4.00 µA"));
+    assert!(String::from_utf8_lossy(&o.stderr).contains("metric 'osc.supply' = 4.20 µA fails its spec ≤ 4.00 µA"));
     let md = std::fs::read_to_string(out_dir(d.path()).join("report.md")).unwrap();
-    assert!(md.contains("| `osc.supply` | 4.200 µA | ≤ 4.00 µA | **FAIL** |"), "{md}");
+    assert!(md.contains("| `osc.supply` | 4.20 µA | ≤ 4.00 µA | **FAIL** |"), "{md}");
     assert!(md.contains("**1 metric fails its spec.**"), "{md}");
     let js: serde_json::Value =
         serde_json::from_str(&std::fs::read_to_string(out_dir(d.path()).join("results.json")).unwrap()).unwrap();

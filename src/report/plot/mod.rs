@@ -2,6 +2,7 @@
 //! rendering to SVG with plotters.
 pub mod font;
 pub mod svg;
+pub mod thin;
 pub mod ticks;
 
 /// The kinds of chart.
@@ -147,10 +148,16 @@ impl Plot {
                 }
             }
         }
+        // Refused like NaN in `show` and `table`: a point that cannot be placed is an error,
+        // never a silent gap.
+        if let Some((k, v)) = self.x.iter().enumerate().find(|(_, v)| !v.is_finite()) {
+            return Err(format!("plot: element {k} of 'x' is {}; {NOT_FINITE}", not_finite(*v)));
+        }
         for (k, y) in self.ys.iter().enumerate() {
             let what = if self.kind == Kind::Histogram { "'x'" } else { "'y'" };
-            if !y.iter().any(|v| v.is_finite()) {
-                return Err(format!("plot: {} of {what} has no finite value", series(k)));
+            if let Some((i, v)) = y.iter().enumerate().find(|(_, v)| !v.is_finite()) {
+                let which = if self.ys.len() > 1 { format!("{} of {what}", series(k)) } else { what.to_string() };
+                return Err(format!("plot: element {i} of {which} is {}; {NOT_FINITE}", not_finite(*v)));
             }
             if self.log_y
                 && let Some(v) = y.iter().find(|v| v.is_finite() && **v <= 0.0)
@@ -160,6 +167,15 @@ impl Plot {
         }
         Ok(())
     }
+}
+
+/// Why a plot refuses a value that is not finite, and what to do.
+pub const NOT_FINITE: &str = "a plot takes finite values only (as show and table refuse NaN): \
+     drop the point from both x and y, or fix the undefined result upstream (0/0, ln or sqrt of a \
+     negative number, inf - inf)";
+
+fn not_finite(v: f64) -> &'static str {
+    if v.is_nan() { "NaN (not a number)" } else { "infinite" }
 }
 
 /// File-name part from a title: lower-case ASCII letters and digits, other runs as '-',

@@ -6,6 +6,7 @@ use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
 
 use super::font::{self, FAMILY};
+use super::thin;
 use super::ticks::{self, Axis};
 use super::{Kind, Plot, auto_bins};
 
@@ -19,14 +20,18 @@ const DESC: f64 = 19.0;
 const TICK: f64 = 17.0;
 const LEGEND: f64 = 17.0;
 
-/// Series colours: ink blue, copper, pine, mulberry, slate, mustard.
+/// Series colours, in this order: wine, periwinkle, saffron, indigo, bark, sand. Our own set,
+/// tuned so that every pair stays at least ΔE*ab 32 apart for normal vision and for simulated
+/// protan, deutan and tritan vision (Machado et al. 2009), and every colour at least 37 from
+/// the white canvas; the first two differ in lightness as well as hue. See docs/plots.md and
+/// tests/reference/palette_cvd.py.
 pub const PALETTE: [RGBColor; 6] = [
-    RGBColor(36, 82, 140),
-    RGBColor(196, 98, 45),
-    RGBColor(38, 128, 104),
-    RGBColor(138, 64, 120),
-    RGBColor(96, 104, 112),
-    RGBColor(176, 140, 30),
+    RGBColor(0x6B, 0x11, 0x48),
+    RGBColor(0x8F, 0xA8, 0xF0),
+    RGBColor(0xFC, 0x99, 0x15),
+    RGBColor(0x10, 0x4D, 0xA1),
+    RGBColor(0x52, 0x46, 0x17),
+    RGBColor(0xB2, 0x9B, 0x5E),
 ];
 const INK: RGBColor = RGBColor(40, 40, 40);
 const AXIS: RGBColor = RGBColor(90, 90, 90);
@@ -87,15 +92,6 @@ pub fn render(p: &Plot) -> Result<String, String> {
 
 fn xml_escape(t: &str) -> String {
     t.replace('&', "&amp;").replace('<', "&lt;").replace('>', "&gt;").replace('"', "&quot;")
-}
-
-/// Axis description with the unit: `period (s)`.
-fn desc(label: &str, unit: &str) -> String {
-    match (label.is_empty(), unit.is_empty()) {
-        (_, true) => label.to_string(),
-        (true, false) => format!("({unit})"),
-        (false, false) => format!("{label} ({unit})"),
-    }
 }
 
 fn text_w(root: &Area, t: &str, size: f64) -> u32 {
@@ -228,40 +224,27 @@ fn xy(root: &Area, p: &Plot) -> Result<(), String> {
     let ya = axis_for(yr, p.log_y, 6, false);
     let xf = |c: &f64| xa.label(*c, &p.x_unit);
     let yf = |c: &f64| ya.label(*c, &p.y_unit);
-    let mut c = chart(root, p, &xa, &ya, &xf, &yf, &desc(&p.x_label, &p.x_unit), &desc(&p.y_label, &p.y_unit))?;
+    let mut c =
+        chart(root, p, &xa, &ya, &xf, &yf, &xa.describe(&p.x_label, &p.x_unit), &ya.describe(&p.y_label, &p.y_unit))?;
+    let (w, h) = c.plotting_area().dim_in_pixel();
     for (k, y) in p.ys.iter().enumerate() {
         let color = PALETTE[k % PALETTE.len()];
-        let pts: Vec<(f64, f64)> = p.x.iter().zip(y).map(|(&a, &b)| (a, b)).collect();
+        // Every value is finite (checked); drawing coordinates, then thinned to the pixels.
+        let pts: Vec<(f64, f64)> = p.x.iter().zip(y).map(|(&a, &b)| (xa.to_coord(a), ya.to_coord(b))).collect();
         let pts = if p.kind == Kind::Step { staircase(&pts) } else { pts };
-        // Runs of finite points: a NaN breaks the line instead of being drawn.
-        let mut runs: Vec<Vec<(f64, f64)>> = vec![vec![]];
-        for (a, b) in pts {
-            if a.is_finite() && b.is_finite() {
-                if let Some(r) = runs.last_mut() {
-                    r.push((xa.to_coord(a), ya.to_coord(b)));
-                }
-            } else if !runs.last().is_some_and(|r| r.is_empty()) {
-                runs.push(vec![]);
-            }
-        }
-        let style = color.stroke_width(2);
-        let mut labelled = false;
-        for run in runs.into_iter().filter(|r| !r.is_empty()) {
-            let ann = if p.kind == Kind::Scatter {
-                c.draw_series(run.into_iter().map(|q| Circle::new(q, 3, color.filled()))).map_err(pe)?
+        let (xr, yr) = ((xa.lo, xa.hi), (ya.lo, ya.hi));
+        let ann = if p.kind == Kind::Scatter {
+            let pts = thin::scatter(&pts, xr, yr, w, h);
+            c.draw_series(pts.into_iter().map(|q| Circle::new(q, 3, color.filled()))).map_err(pe)?
+        } else {
+            c.draw_series(LineSeries::new(thin::polyline(&pts, xr, yr, w, h), color.stroke_width(2))).map_err(pe)?
+        };
+        if let Some(name) = p.names.get(k) {
+            let a = ann.label(name.as_str());
+            if p.kind == Kind::Scatter {
+                a.legend(move |(x, y)| Circle::new((x + 10, y), 4, color.filled()));
             } else {
-                c.draw_series(LineSeries::new(run, style)).map_err(pe)?
-            };
-            if !labelled {
-                if let Some(name) = p.names.get(k) {
-                    let a = ann.label(name.as_str());
-                    if p.kind == Kind::Scatter {
-                        a.legend(move |(x, y)| Circle::new((x + 10, y), 4, color.filled()));
-                    } else {
-                        a.legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 20, y)], color.stroke_width(2)));
-                    }
-                }
-                labelled = true;
+                a.legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 20, y)], color.stroke_width(2)));
             }
         }
     }
@@ -328,7 +311,7 @@ fn histogram(root: &Area, p: &Plot) -> Result<(), String> {
     let xf = |c: &f64| xa.label(*c, &p.x_unit);
     let yf = |c: &f64| ya.label(*c, "");
     let y_desc = if p.y_label.is_empty() { "count".to_string() } else { p.y_label.clone() };
-    let mut c = chart(root, p, &xa, &ya, &xf, &yf, &desc(&p.x_label, &p.x_unit), &y_desc)?;
+    let mut c = chart(root, p, &xa, &ya, &xf, &yf, &xa.describe(&p.x_label, &p.x_unit), &y_desc)?;
     let alpha = if p.ys.len() > 1 { 0.45 } else { 0.75 };
     for (k, cs) in counts.iter().enumerate() {
         let color = PALETTE[k % PALETTE.len()];
@@ -406,15 +389,22 @@ fn bars(root: &Area, p: &Plot) -> Result<(), String> {
     let hi = if hi > 0.0 { hi + 0.18 * span } else { hi };
     let mut xa = ticks::linear(lo, hi, 6, true, false);
     xa.minor.clear();
-    let ya =
-        Axis { lo: -0.6, hi: n as f64 - 0.4, ticks: (0..n).map(|k| k as f64).collect(), minor: vec![], log: false };
+    let ya = Axis {
+        lo: -0.6,
+        hi: n as f64 - 0.4,
+        ticks: (0..n).map(|k| k as f64).collect(),
+        minor: vec![],
+        log: false,
+        step: 0.0,
+        offset: 0.0,
+    };
     let shown: Vec<String> = labels.iter().map(|l| fit(root, l, 300)).collect();
     let xf = |c: &f64| xa.label(*c, &p.y_unit);
     let yf = |c: &f64| {
         let k = c.round() as i64;
         if k < 0 || k >= n as i64 { String::new() } else { shown[n - 1 - k as usize].clone() }
     };
-    let mut c = chart(root, p, &xa, &ya, &xf, &yf, &desc(&p.y_label, &p.y_unit), &p.x_label)?;
+    let mut c = chart(root, p, &xa, &ya, &xf, &yf, &xa.describe(&p.y_label, &p.y_unit), &p.x_label)?;
     let row = |k: usize| (n - 1 - k) as f64;
     c.draw_series(
         spans

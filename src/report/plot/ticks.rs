@@ -1,6 +1,18 @@
-//! Axis ranges and tick positions: "nice" steps of 1, 2, 2.5 or 5 × 10^k on linear axes,
-//! decades (with 2 and 5 between them on short ranges) on log axes, and SI-prefixed labels.
+//! Axis ranges, tick positions and tick labels: "nice" steps of 1, 2, 2.5 or 5 × 10^k on
+//! linear axes, decades (with 2 and 5 between them on short ranges) on log axes.
+//!
+//! Labels follow one rule on both kinds of axis: the unit is written once, in the axis
+//! description, and each label carries only an SI prefix (none for units never prefixed,
+//! such as `%` or `dB`), with trailing zeros dropped. A linear axis uses one prefix for all
+//! its ticks and exactly as many decimals as its step needs, so labels are always distinct;
+//! when that would take more than [`MAX_DIGITS`] significant digits (a narrow range far from
+//! zero, as around a trimmed period), the ticks are labelled relative to an offset that the
+//! axis description states. A log axis gives each decade its own prefix.
+use crate::num::si;
 use crate::report::format;
+
+/// Most significant digits a linear tick label may need before the axis switches to an offset.
+pub const MAX_DIGITS: i32 = 5;
 
 /// One axis in drawing coordinates: log axes are laid out in log10 of the value.
 #[derive(Clone, Debug, PartialEq)]
@@ -12,6 +24,10 @@ pub struct Axis {
     /// Unlabelled minor grid lines, in drawing coordinates.
     pub minor: Vec<f64>,
     pub log: bool,
+    /// Step between linear ticks (0 on log axes and on category axes).
+    pub step: f64,
+    /// Linear ticks are labelled as value − offset (0: no offset).
+    pub offset: f64,
 }
 
 /// Step of 1, 2, 2.5 or 5 × 10^k nearest to `raw` on a log scale (common practice for
@@ -60,7 +76,40 @@ pub fn linear(a: f64, b: f64, target: usize, from_zero: bool, exact: bool) -> Ax
     for k in mf..=ml {
         minor.push(k as f64 * minor_step);
     }
-    Axis { lo, hi, ticks, minor, log: false }
+    let mut axis = Axis { lo, hi, ticks, minor, log: false, step, offset: 0.0 };
+    axis.offset = offset_for(&axis);
+    axis
+}
+
+/// Position of the last significant digit of a nice step: −7 for 2e-7, −8 for 2.5e-7.
+fn last_digit(step: f64) -> i32 {
+    let mut e = step.abs().log10().floor() as i32;
+    let mut m = step.abs() / 10f64.powi(e);
+    if m >= 9.5 {
+        e += 1;
+        m /= 10.0;
+    }
+    if (m - 2.5).abs() < 1e-6 { e - 1 } else { e }
+}
+
+/// Significant digits a label of `top` needs when its last digit sits at 10^last.
+fn digits_needed(top: f64, last: i32) -> i32 {
+    if top == 0.0 { 1 } else { top.abs().log10().floor() as i32 - last + 1 }
+}
+
+/// The offset a linear axis is labelled from: 0 when every tick fits in [`MAX_DIGITS`]
+/// significant digits, else the multiple of 10^q nearest the middle of the range, where
+/// 10^q is the first power of ten above the range, so labels stay within ±10^q.
+fn offset_for(a: &Axis) -> f64 {
+    if a.step <= 0.0 || a.ticks.is_empty() {
+        return 0.0;
+    }
+    let top = a.ticks.iter().fold(0.0f64, |m, t| m.max(t.abs()));
+    if digits_needed(top, last_digit(a.step)) <= MAX_DIGITS {
+        return 0.0;
+    }
+    let q = 10f64.powi((a.hi - a.lo).log10().floor() as i32 + 1);
+    ((a.lo + a.hi) / 2.0 / q).round() * q
 }
 
 /// A log axis over positive data in [a, b]; ends snapped down/up to 1, 2 or 5 × 10^k.
@@ -118,7 +167,7 @@ pub fn log(a: f64, b: f64) -> Axis {
         }
     }
     ticks.sort_by(f64::total_cmp);
-    Axis { lo, hi, ticks, minor, log: true }
+    Axis { lo, hi, ticks, minor, log: true, step: 0.0, offset: 0.0 }
 }
 
 impl Axis {
@@ -126,13 +175,74 @@ impl Axis {
     pub fn to_coord(&self, v: f64) -> f64 {
         if self.log { v.log10() } else { v }
     }
-    /// The label of a tick at drawing coordinate `c`: `2.5µ`, `100k`, `-40`.
+
+    /// The label of a tick at drawing coordinate `c`: `2.5µ`, `100k`, `-40` (relative to
+    /// the offset, if the axis has one).
     pub fn label(&self, c: f64, unit: &str) -> String {
-        let v = if self.log { 10f64.powf(c) } else { c };
-        // Ticks near zero on a linear axis are zero (rounding of k × step).
-        let span = (self.hi - self.lo).abs();
-        let v = if !self.log && v.abs() < 1e-9 * span { 0.0 } else { v };
-        format::trim_zeros(&format::bare(v, unit, 4))
+        if self.log {
+            return log_label(10f64.powf(c), unit);
+        }
+        if self.step <= 0.0 {
+            return format::trim_zeros(&format::bare(c, unit, 4));
+        }
+        let rel = |t: f64| {
+            let w = t - self.offset;
+            // k × step − offset can miss zero by rounding.
+            if w.abs() < 1e-6 * self.step { 0.0 } else { w }
+        };
+        let last = last_digit(self.step);
+        let top = self.ticks.iter().fold(0.0f64, |m, t| m.max(rel(*t).abs()));
+        let w = rel(c);
+        if w == 0.0 {
+            return "0".into();
+        }
+        if unit.ends_with(['²', '³']) {
+            // Prefixes of a powered unit go on its length (`µm²`); the label keeps the unit.
+            let d = digits_needed(w, last).clamp(1, 17) as usize;
+            return format::trim_zeros(&format::bare(w, unit, d));
+        }
+        let p3 = if format::plain_unit(unit) || top == 0.0 {
+            0
+        } else {
+            (top.log10().floor() as i32).div_euclid(3).clamp(-10, 10) * 3
+        };
+        let prefix = si::prefix_symbol(p3).unwrap_or("");
+        let decimals = (p3 - last).max(0) as usize;
+        format::trim_zeros(&format!("{:.decimals$}{prefix}", w / 10f64.powi(p3)))
+    }
+
+    /// Labels of all ticks, in order.
+    pub fn labels(&self, unit: &str) -> Vec<String> {
+        self.ticks.iter().map(|t| self.label(*t, unit)).collect()
+    }
+
+    /// The axis description with its unit and offset: `period (s)`, `period − 30.5 µs (s)`.
+    pub fn describe(&self, label: &str, unit: &str) -> String {
+        let label = if self.offset != 0.0 {
+            let q = 10f64.powi((self.hi - self.lo).log10().floor() as i32 + 1);
+            let d = digits_needed(self.offset, q.log10().round() as i32).clamp(1, 17) as usize;
+            let off = format::trim_zeros(&format::value(self.offset.abs(), unit, d));
+            let sign = if self.offset < 0.0 { "+" } else { "−" };
+            if label.is_empty() { format!("value {sign} {off}") } else { format!("{label} {sign} {off}") }
+        } else {
+            label.to_string()
+        };
+        match (label.is_empty(), unit.is_empty()) {
+            (_, true) => label,
+            (true, false) => format!("({unit})"),
+            (false, false) => format!("{label} ({unit})"),
+        }
+    }
+}
+
+/// A log-axis label: the decade's own SI prefix, or plain decimals for unprefixed units.
+fn log_label(v: f64, unit: &str) -> String {
+    // 10^c is exact only up to rounding; ticks are 1, 2 or 5 × 10^k.
+    let v: f64 = format!("{v:.2e}").parse().unwrap_or(v);
+    if format::plain_unit(unit) {
+        if (1e-4..1e6).contains(&v) { format!("{v}") } else { format!("{v:e}") }
+    } else {
+        format::trim_zeros(&format::bare(v, unit, 3))
     }
 }
 
@@ -154,6 +264,33 @@ mod tests {
         let z = linear(-40.0, 125.0, 6, false, false);
         assert!(z.ticks.contains(&0.0));
         assert_eq!(z.label(0.0, "°C"), "0");
+    }
+    #[test]
+    fn narrow_ranges_get_distinct_labels() {
+        // A trimmed 32.768 kHz clock: 32.760k … 32.770k, step 2 → five digits, no offset.
+        let a = linear(32760.0, 32770.0, 6, false, false);
+        assert_eq!(a.offset, 0.0);
+        assert_eq!(a.labels("Hz"), ["32.76k", "32.762k", "32.764k", "32.766k", "32.768k", "32.77k"]);
+        // 30.5 µs ± 0.4 ns would need seven digits: labelled from an offset of 30.5 µs.
+        let b = linear(30.5e-6 - 0.4e-9, 30.5e-6 + 0.4e-9, 6, false, false);
+        assert!(b.offset != 0.0);
+        let l = b.labels("s");
+        let mut d = l.clone();
+        d.dedup();
+        assert_eq!(d.len(), l.len(), "{l:?}");
+        assert_eq!(b.describe("period", "s"), "period − 30.5 µs (s)");
+        assert_eq!(l, ["-400p", "-300p", "-200p", "-100p", "0", "100p", "200p", "300p", "400p"]);
+    }
+    #[test]
+    fn one_prefix_per_linear_axis() {
+        let a = linear(0.0, 2e-6, 5, false, false);
+        assert_eq!(a.labels("s"), ["0", "0.5µ", "1µ", "1.5µ", "2µ"]);
+        // The same value reads the same on a log axis.
+        let l = log(1e-7, 1e-5);
+        assert!(l.labels("s").contains(&"1µ".to_string()));
+        // Units never prefixed: plain decimals on both kinds of axis.
+        assert_eq!(linear(0.0, 100.0, 5, false, false).labels("%"), ["0", "20", "40", "60", "80", "100"]);
+        assert_eq!(log(0.1, 100.0).labels("%"), ["0.1", "1", "10", "100"]);
     }
     #[test]
     fn log_ticks_on_decades() {
