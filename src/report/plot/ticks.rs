@@ -8,7 +8,7 @@
 //! when that would take more than [`MAX_DIGITS`] significant digits (a narrow range far from
 //! zero, as around a trimmed period), the ticks are labelled relative to an offset that the
 //! axis description states. A log axis gives each decade its own prefix.
-use crate::num::si;
+use crate::num::{math, si};
 use crate::report::format;
 
 /// Most significant digits a linear tick label may need before the axis switches to an offset.
@@ -33,12 +33,12 @@ pub struct Axis {
 /// Step of 1, 2, 2.5 or 5 × 10^k nearest to `raw` on a log scale (common practice for
 /// axis ticks).
 pub fn nice_step(raw: f64) -> f64 {
-    let e = raw.log10().floor();
-    let base = 10f64.powf(e);
+    let e = math::log10(raw).floor();
+    let base = math::pow(10f64, e);
     let f = raw / base;
     let m = [1.0, 2.0, 2.5, 5.0, 10.0]
         .into_iter()
-        .min_by(|a: &f64, b: &f64| (a / f).ln().abs().total_cmp(&(b / f).ln().abs()))
+        .min_by(|a: &f64, b: &f64| math::ln(a / f).abs().total_cmp(&math::ln(b / f).abs()))
         .unwrap_or(1.0);
     m * base
 }
@@ -83,8 +83,8 @@ pub fn linear(a: f64, b: f64, target: usize, from_zero: bool, exact: bool) -> Ax
 
 /// Position of the last significant digit of a nice step: −7 for 2e-7, −8 for 2.5e-7.
 fn last_digit(step: f64) -> i32 {
-    let mut e = step.abs().log10().floor() as i32;
-    let mut m = step.abs() / 10f64.powi(e);
+    let mut e = math::log10(step.abs()).floor() as i32;
+    let mut m = step.abs() / math::pow(10f64, e as f64);
     if m >= 9.5 {
         e += 1;
         m /= 10.0;
@@ -94,7 +94,7 @@ fn last_digit(step: f64) -> i32 {
 
 /// Significant digits a label of `top` needs when its last digit sits at 10^last.
 fn digits_needed(top: f64, last: i32) -> i32 {
-    if top == 0.0 { 1 } else { top.abs().log10().floor() as i32 - last + 1 }
+    if top == 0.0 { 1 } else { math::log10(top.abs()).floor() as i32 - last + 1 }
 }
 
 /// The offset a linear axis is labelled from: 0 when every tick fits in [`MAX_DIGITS`]
@@ -108,34 +108,34 @@ fn offset_for(a: &Axis) -> f64 {
     if digits_needed(top, last_digit(a.step)) <= MAX_DIGITS {
         return 0.0;
     }
-    let q = 10f64.powi((a.hi - a.lo).log10().floor() as i32 + 1);
+    let q = math::pow(10f64, math::log10(a.hi - a.lo).floor() + 1.0);
     ((a.lo + a.hi) / 2.0 / q).round() * q
 }
 
 /// A log axis over positive data in [a, b]; ends snapped down/up to 1, 2 or 5 × 10^k.
 pub fn log(a: f64, b: f64) -> Axis {
     let (a, b) = (a.min(b), a.max(b));
-    let (la, lb) = (a.log10(), b.log10());
+    let (la, lb) = (math::log10(a), math::log10(b));
     let snap_down = |l: f64| {
         let d = l.floor();
-        let m = 10f64.powf(l - d);
+        let m = math::pow(10f64, l - d);
         d + if m >= 5.0 - 1e-9 {
-            5f64.log10()
+            math::log10(5f64)
         } else if m >= 2.0 - 1e-9 {
-            2f64.log10()
+            math::log10(2f64)
         } else {
             0.0
         }
     };
     let snap_up = |l: f64| {
         let d = l.floor();
-        let m = 10f64.powf(l - d);
+        let m = math::pow(10f64, l - d);
         if m <= 1.0 + 1e-9 {
             d
         } else if m <= 2.0 + 1e-9 {
-            d + 2f64.log10()
+            d + math::log10(2f64)
         } else if m <= 5.0 + 1e-9 {
-            d + 5f64.log10()
+            d + math::log10(5f64)
         } else {
             d + 1.0
         }
@@ -156,7 +156,7 @@ pub fn log(a: f64, b: f64) -> Axis {
             ticks.push(dd);
         }
         for m in 2..=9 {
-            let t = dd + (m as f64).log10();
+            let t = dd + math::log10(m as f64);
             if t >= lo - 1e-9 && t <= hi + 1e-9 {
                 if decades <= 2.0 && (m == 2 || m == 5) {
                     ticks.push(t);
@@ -173,14 +173,14 @@ pub fn log(a: f64, b: f64) -> Axis {
 impl Axis {
     /// A data value in drawing coordinates.
     pub fn to_coord(&self, v: f64) -> f64 {
-        if self.log { v.log10() } else { v }
+        if self.log { math::log10(v) } else { v }
     }
 
     /// The label of a tick at drawing coordinate `c`: `2.5µ`, `100k`, `-40` (relative to
     /// the offset, if the axis has one).
     pub fn label(&self, c: f64, unit: &str) -> String {
         if self.log {
-            return log_label(10f64.powf(c), unit);
+            return log_label(math::pow(10f64, c), unit);
         }
         if self.step <= 0.0 {
             return format::trim_zeros(&format::bare(c, unit, 4));
@@ -204,11 +204,11 @@ impl Axis {
         let p3 = if format::plain_unit(unit) || top == 0.0 {
             0
         } else {
-            (top.log10().floor() as i32).div_euclid(3).clamp(-10, 10) * 3
+            (math::log10(top).floor() as i32).div_euclid(3).clamp(-10, 10) * 3
         };
         let prefix = si::prefix_symbol(p3).unwrap_or("");
         let decimals = (p3 - last).max(0) as usize;
-        format::trim_zeros(&format!("{:.decimals$}{prefix}", w / 10f64.powi(p3)))
+        format::trim_zeros(&format!("{:.decimals$}{prefix}", w / math::pow(10f64, p3 as f64)))
     }
 
     /// Labels of all ticks, in order.
@@ -219,8 +219,8 @@ impl Axis {
     /// The axis description with its unit and offset: `period (s)`, `period − 30.5 µs (s)`.
     pub fn describe(&self, label: &str, unit: &str) -> String {
         let label = if self.offset != 0.0 {
-            let q = 10f64.powi((self.hi - self.lo).log10().floor() as i32 + 1);
-            let d = digits_needed(self.offset, q.log10().round() as i32).clamp(1, 17) as usize;
+            let q = math::pow(10f64, math::log10(self.hi - self.lo).floor() + 1.0);
+            let d = digits_needed(self.offset, math::log10(q).round() as i32).clamp(1, 17) as usize;
             let off = format::trim_zeros(&format::value(self.offset.abs(), unit, d));
             let sign = if self.offset < 0.0 { "+" } else { "−" };
             if label.is_empty() { format!("value {sign} {off}") } else { format!("{label} {sign} {off}") }
