@@ -95,8 +95,8 @@ mod tests {
         assert_eq!(counts(&e), (3, 1, 1));
         let md = render(&e);
         assert!(md.contains("3 scripts run: 1 failed, 1 with a metric out of spec."), "{md}");
-        assert!(md.contains("| [a/x](a/x/report.md) | `osc.period` | 1.000 µs | ≤ 2.00 µs | pass |"), "{md}");
-        assert!(md.contains("| [b/x](b/x/report.md) | `osc.period` | 3.000 µs | ≤ 2.00 µs | **FAIL** |"), "{md}");
+        assert!(md.contains("| [a/x](a/x/report.md) | `osc.period` | 1.00 µs | ≤ 2.00 µs | pass |"), "{md}");
+        assert!(md.contains("| [b/x](b/x/report.md) | `osc.period` | 3.00 µs | ≤ 2.00 µs | **FAIL** |"), "{md}");
         assert!(md.contains("| [c](c/report.md) | `c.rhai` | **script error**"), "{md}");
     }
 }
