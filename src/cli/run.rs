@@ -4,6 +4,7 @@ use std::path::{Path, PathBuf};
 
 use clap::Args;
 
+use crate::engine::term::err;
 use crate::engine::{
     self,
     sandbox::Sandbox,
@@ -70,7 +71,7 @@ pub fn run(a: &RunArgs) -> i32 {
     let sets = match parse_sets(&a.set) {
         Ok(s) => s,
         Err(e) => {
-            eprintln!("error: {e}");
+            err(&format!("error: {e}"));
             return super::EXIT_USAGE;
         }
     };
@@ -85,10 +86,15 @@ pub fn run(a: &RunArgs) -> i32 {
 
 fn run_one(a: &RunArgs, file: &Path, sets: &BTreeMap<String, String>) -> i32 {
     let shown = file.display().to_string();
+    // A FIFO or a device as the script would block or never end: only plain files are scripts.
+    if std::fs::metadata(file).is_ok_and(|m| !m.is_file()) {
+        err(&format!("{shown}: cannot read the script: not a regular file (a folder, pipe or device)"));
+        return super::EXIT_SCRIPT_ERROR;
+    }
     let text = match std::fs::read_to_string(file) {
         Ok(t) => t,
         Err(e) => {
-            eprintln!("{shown}: cannot read the script: {e}");
+            err(&format!("{shown}: cannot read the script: {e}"));
             return super::EXIT_SCRIPT_ERROR;
         }
     };
@@ -99,51 +105,39 @@ fn run_one(a: &RunArgs, file: &Path, sets: &BTreeMap<String, String>) -> i32 {
     let sandbox = match Sandbox::new(&a.root, &out_dir, script_dir) {
         Ok(s) => s,
         Err(e) => {
-            eprintln!("{shown}: {e}");
+            err(&format!("{shown}: {e}"));
             return super::EXIT_SCRIPT_ERROR;
         }
     };
     let mut session = Session::new(&name, sandbox);
     session.overrides = sets.clone();
     session.seed = a.seed;
+    session.stamp = a.stamp;
+    session.set_script(file, &shown, &text);
     let shared = Shared::new(session);
     let engine = engine::build(&shared, a.max_ops);
     if let Err(e) = run_source(&engine, &shared, &shown, &text, a.max_ops) {
-        eprintln!("{e}");
-        eprintln!("{shown}: no report written; the previous one in {} is left as it was", out_dir.display());
+        err(&e.to_string());
+        err(&format!("{shown}: no report written; the previous one in {} is left as it was", out_dir.display()));
         return super::EXIT_SCRIPT_ERROR;
     }
     let g = shared.lock();
-    let script_path = file
-        .canonicalize()
-        .ok()
-        .and_then(|c| c.strip_prefix(&g.sandbox.root).ok().map(|r| r.display().to_string()))
-        .unwrap_or_else(|| shown.clone());
-    let prov = report::Provenance {
-        tool: report::Provenance::tool(),
-        script: Some(script_path),
-        script_sha256: Some(report::provenance::sha256_hex(text.as_bytes())),
-        inputs: engine::report_api::included_files(&g, Some(&shown)),
-        overrides: g.overrides.clone(),
-        seed: g.seed,
-        stamp: a.stamp.then(report::provenance::utc_now),
-    };
-    if let Err(e) = report::output::write(&g.report, &prov, &out_dir) {
-        eprintln!(
+    if let Err(e) = report::output::write(&g.report, &g.provenance(), &out_dir) {
+        err(&format!(
             "{shown}: cannot write the report into {}: {e}; report.md there, if any, is the previous run's",
             out_dir.display()
-        );
+        ));
         return super::EXIT_SCRIPT_ERROR;
     }
     let failed = g.report.failed();
     if !failed.is_empty() {
         for m in &failed {
-            eprintln!(
+            err(&format!(
                 "{shown}: metric '{}' = {} fails its spec {}",
                 m.name,
                 report::format::value(m.value, &m.unit, 4),
                 m.spec.text(&m.unit)
-            );
+            ));
         }
         return super::EXIT_SPEC_FAILED;
     }
