@@ -141,7 +141,7 @@ pub fn run(a: &RunArgs) -> i32 {
     };
     for d in &done {
         for m in &d.messages {
-            err(&format!("{m}"));
+            err(m);
         }
     }
     // A script error (1) outranks a failed spec (3): CI must see that a script did not run.
