@@ -57,7 +57,7 @@ pub fn judge(old: f64, new: f64, spec: &Spec, threshold_pct: f64) -> Change {
 pub fn pct_text(p: Option<f64>) -> String {
     match p {
         None => "from 0".to_string(),
-        Some(x) if x == 0.0 => "0 %".to_string(),
+        Some(0.0) => "0 %".to_string(),
         Some(x) if x > 0.0 => format!("+{x:.2} %"),
         Some(x) => format!("−{:.2} %", -x),
     }
