@@ -30,10 +30,12 @@ fn values(what: &str, m: &Map) -> R<Values> {
             refs.push((k.to_string(), r));
         } else {
             let x = to_f64(v).map_err(|_| {
-                format!(
-                    "{what}: key '{k}' must be a number (or, for i, v_lo and v_hi, a reference such as ptat(750n) or ladder(0.75)), found {}",
-                    v.type_name()
-                )
+                let or = match k.as_str() {
+                    "i" => " or a current reference such as ptat(750n)",
+                    "v_lo" | "v_hi" => " or a threshold reference such as ladder(0.75)",
+                    _ => "",
+                };
+                format!("{what}: key '{k}' must be a number{or}, found {}", v.type_name())
             })?;
             nums.push((k.to_string(), x));
         }
