@@ -11,6 +11,7 @@ pub mod errors;
 pub mod fit_api;
 pub mod physics_api;
 pub mod prepass;
+pub mod reference_api;
 pub mod report_api;
 pub mod resolver;
 pub mod sandbox;
@@ -71,6 +72,7 @@ pub fn build(session: &Shared, max_ops: u64) -> Engine {
     series_api::register(&mut engine);
     report_api::register(&mut engine, session);
     physics_api::register(&mut engine, session);
+    reference_api::register(&mut engine);
     timing_api::register(&mut engine, session);
     analysis_api::register(&mut engine);
     fit_api::register(&mut engine, session);
