@@ -7,7 +7,7 @@ use rhai::{Array, Dynamic, Engine, Map, NativeCallContext};
 use super::session::Shared;
 use super::value::to_f64;
 use crate::num::Series;
-use crate::report::plot::{self, Kind, Plot};
+use crate::report::plot::{self, Band, Event, Kind, Plot, RefLine};
 use crate::report::{Cell, Column, Figure, Item, Metric, Spec, Table, format};
 
 /// Reject option keys other than `allowed`, naming them all.
@@ -160,8 +160,8 @@ pub fn register(engine: &mut Engine, shared: &Shared) {
     let s = shared.clone();
     api::fun(
         engine,
-        "plot(#{title, x, y, kind, names, x_label, y_label, x_unit, y_unit, log_x, log_y, bins, stats, labels, waterfall, total_label}) -> string",
-        "an SVG chart beside the report (fig-NN-<title>.svg), linked from it; kinds line (default), scatter, step, histogram (samples in x; bins; stats: true marks the mean and gives mean and σ in the legend), bar (labels + y; waterfall: true stacks them and adds a total); y may be an array of Series with names for the legend; units go in x_unit/y_unit (ticks get SI prefixes); returns the file name",
+        "plot(#{title, x, y, kind, names, x_label, y_label, x_unit, y_unit, log_x, log_y, x_min, x_max, y_min, y_max, y2, y2_label, y2_unit, x_lines, y_lines, band, events, bins, stats, labels, waterfall, total_label}) -> string",
+        "an SVG chart beside the report (fig-NN-<title>.svg), linked from it; kinds line (default), scatter, step, histogram (samples in x; bins; stats: true marks mean and ±σ and gives them in the legend), bar (labels + y; waterfall: true stacks them and adds a total); y may be an array of Series with names for the legend (y first, then y2); units go in x_unit/y_unit (ticks get SI prefixes); x_min..y_max: axis limits (data beyond are clipped); y2: Series on a right-hand axis (y2_label, y2_unit); x_lines, y_lines: labelled reference lines (a number, an array of numbers or #{at, label}, or a map label: value); band: a shaded y window #{min, max, label} (either end may be left out) or an array of them; events: markers, the events map of simulate (t, v, what) or times; every value must be finite; returns the file name",
         move |m: Map| -> R<String> { plot_fn(&s, &m) },
     );
 
@@ -381,6 +381,132 @@ fn strings(key: &str, v: &Dynamic) -> R<Vec<String>> {
     Ok(a.iter().map(|x| x.to_string()).collect())
 }
 
+/// A number from a plot key, or an error naming it.
+fn plot_num(key: &str, v: &Dynamic) -> R<f64> {
+    to_f64(v).map_err(|_| format!("plot: key '{key}' must be a number, found {}", v.type_name()).into())
+}
+
+fn opt_num(m: &Map, key: &str) -> R<Option<f64>> {
+    m.get(key).map(|v| plot_num(key, v)).transpose()
+}
+
+/// One reference line from `#{at, label}`.
+fn ref_line_map(key: &str, m: &Map) -> R<RefLine> {
+    check_keys(&format!("plot: a line of '{key}'"), m, &["at", "label"])?;
+    let at = m.get("at").ok_or_else(|| format!("plot: a line of '{key}' needs 'at' (the value it marks)"))?;
+    Ok(RefLine { at: plot_num(key, at)?, label: opt_str("plot", m, "label")? })
+}
+
+/// Reference lines: a number, a Series, an array of numbers or of `#{at, label}` maps, or a
+/// map of label to value.
+fn ref_lines(key: &str, v: &Dynamic) -> R<Vec<RefLine>> {
+    if let Some(m) = v.clone().try_cast::<Map>() {
+        if m.contains_key("at") {
+            return Ok(vec![ref_line_map(key, &m)?]);
+        }
+        return m.iter().map(|(k, x)| Ok(RefLine { at: plot_num(key, x)?, label: k.to_string() })).collect();
+    }
+    if let Some(a) = v.clone().try_cast::<Array>() {
+        return a
+            .iter()
+            .map(|x| match x.clone().try_cast::<Map>() {
+                Some(m) => ref_line_map(key, &m),
+                None => Ok(RefLine { at: plot_num(key, x)?, label: String::new() }),
+            })
+            .collect();
+    }
+    if let Some(s) = v.clone().try_cast::<Series>() {
+        return Ok(s.as_slice().iter().map(|&at| RefLine { at, label: String::new() }).collect());
+    }
+    Ok(vec![RefLine { at: plot_num(key, v)?, label: String::new() }])
+}
+
+/// A band from `#{min, max, label}`.
+fn band_map(m: &Map) -> R<Band> {
+    check_keys("plot: 'band'", m, &["min", "max", "label"])?;
+    Ok(Band { min: opt_num(m, "min")?, max: opt_num(m, "max")?, label: opt_str("plot", m, "label")? })
+}
+
+fn bands(v: &Dynamic) -> R<Vec<Band>> {
+    if let Some(m) = v.clone().try_cast::<Map>() {
+        return Ok(vec![band_map(&m)?]);
+    }
+    let Some(a) = v.clone().try_cast::<Array>() else {
+        return err(format!(
+            "plot: key 'band' must be a map #{{min, max, label}} or an array of them, found {}",
+            v.type_name()
+        ));
+    };
+    a.iter()
+        .map(|x| {
+            x.clone()
+                .try_cast::<Map>()
+                .ok_or_else(|| "plot: each 'band' is a map #{min, max, label}".into())
+                .and_then(|m| band_map(&m))
+        })
+        .collect()
+}
+
+/// The numbers of an event field: a Series or an array of numbers.
+fn event_numbers(field: &str, v: &Dynamic) -> R<Vec<f64>> {
+    match as_series(v) {
+        Some(Ok(s)) => Ok(s.to_vec()),
+        _ => err(format!("plot: 'events' field '{field}' must be a Series or an array of numbers")),
+    }
+}
+
+/// Events: the `events` map of `simulate` (`t`, and `v` and `what` when present), an array
+/// of times, or an array of `#{t, v, what}` maps.
+fn events(v: &Dynamic) -> R<Vec<Event>> {
+    let from_map = |m: &Map| -> R<Vec<Event>> {
+        let t = m.get("t").ok_or("plot: 'events' needs 't', the times of the events")?;
+        if let Ok(x) = to_f64(t) {
+            let y = opt_num(m, "v")?;
+            let kind = opt_str("plot", m, "what")?;
+            return Ok(vec![Event { x, y, kind }]);
+        }
+        let t = event_numbers("t", t)?;
+        let y = m.get("v").map(|v| event_numbers("v", v)).transpose()?;
+        let what: Option<Vec<String>> = match m.get("what") {
+            None => None,
+            Some(w) => Some(strings("events.what", w)?),
+        };
+        for (name, n) in [("v", y.as_ref().map(Vec::len)), ("what", what.as_ref().map(Vec::len))] {
+            if let Some(n) = n
+                && n != t.len()
+            {
+                return err(format!("plot: 'events' has {} times but {n} values of '{name}'", t.len()));
+            }
+        }
+        Ok((0..t.len())
+            .map(|k| Event {
+                x: t[k],
+                y: y.as_ref().map(|y| y[k]),
+                kind: what.as_ref().map(|w| w[k].clone()).unwrap_or_default(),
+            })
+            .collect())
+    };
+    if let Some(m) = v.clone().try_cast::<Map>() {
+        return from_map(&m);
+    }
+    if let Some(a) = v.clone().try_cast::<Array>()
+        && a.iter().all(|x| x.is_map())
+    {
+        let mut all = Vec::new();
+        for x in &a {
+            all.extend(from_map(&x.clone().cast::<Map>())?);
+        }
+        return Ok(all);
+    }
+    match as_series(v) {
+        Some(Ok(s)) => Ok(s.as_slice().iter().map(|&x| Event { x, y: None, kind: String::new() }).collect()),
+        _ => err(format!(
+            "plot: key 'events' must be the events map of simulate, times (a Series or an array), or an array of #{{t, v, what}} maps, found {}",
+            v.type_name()
+        )),
+    }
+}
+
 const PLOT_KEYS: &[&str] = &[
     "title",
     "kind",
@@ -398,6 +524,17 @@ const PLOT_KEYS: &[&str] = &[
     "waterfall",
     "total_label",
     "stats",
+    "x_lines",
+    "y_lines",
+    "band",
+    "events",
+    "x_min",
+    "x_max",
+    "y_min",
+    "y_max",
+    "y2",
+    "y2_label",
+    "y2_unit",
 ];
 
 /// A [`Plot`] from the script's map; errors name the key.
@@ -438,6 +575,25 @@ pub fn plot_from_map(m: &Map) -> R<Plot> {
     if let Some(l) = m.get("labels") {
         p.labels = strings("labels", l)?;
     }
+    if let Some(v) = m.get("x_lines") {
+        p.x_lines = ref_lines("x_lines", v)?;
+    }
+    if let Some(v) = m.get("y_lines") {
+        p.y_lines = ref_lines("y_lines", v)?;
+    }
+    if let Some(v) = m.get("band") {
+        p.bands = bands(v)?;
+    }
+    if let Some(v) = m.get("events") {
+        p.events = events(v)?;
+    }
+    (p.x_min, p.x_max, p.y_min, p.y_max) =
+        (opt_num(m, "x_min")?, opt_num(m, "x_max")?, opt_num(m, "y_min")?, opt_num(m, "y_max")?);
+    if let Some(v) = m.get("y2") {
+        p.y2 = series_list("y2", v)?;
+    }
+    p.y2_label = opt_str("plot", m, "y2_label")?;
+    p.y2_unit = opt_str("plot", m, "y2_unit")?;
     match kind {
         Kind::Histogram => {
             if m.contains_key("y") {

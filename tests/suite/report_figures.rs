@@ -2,7 +2,7 @@
 //! distinct tick labels on narrow ranges, small files for long transients, a colour-blind-safe
 //! palette of our own.
 use tickwork::report::plot::svg::{self, PALETTE};
-use tickwork::report::plot::{Kind, Plot};
+use tickwork::report::plot::{Band, Kind, Plot, RefLine};
 
 /// Every `<text>` of a rendered figure, in document order.
 fn texts(svg: &str) -> Vec<String> {
@@ -155,4 +155,235 @@ fn non_finite_points_are_refused_as_show_and_table_refuse_them() {
     assert!(svg::render(&p).unwrap_err().contains("element 1 of 'y' is NaN"), "{:?}", svg::render(&p));
     p.ys = vec![vec![1.0, 2.0, 3.0], vec![1.0, 2.0, f64::INFINITY]];
     assert!(svg::render(&p).unwrap_err().contains("element 2 of series 2 of 'y' is infinite"));
+}
+
+/// A text's box in viewBox units: (x0, y0, x1, y1), from its anchor, baseline shift and the
+/// width the layout measures (rotated texts are left out: None).
+fn text_box(n: roxmltree::Node) -> Option<(f64, f64, f64, f64)> {
+    if n.attribute("transform").is_some() {
+        return None;
+    }
+    let num = |k: &str| n.attribute(k).and_then(|v| v.parse::<f64>().ok());
+    let (x, y, fs) = (num("x")?, num("y")?, num("font-size")?);
+    let t = n.text().unwrap_or("").trim();
+    if t.is_empty() {
+        return None;
+    }
+    // Font sizes are in viewBox units; the measure takes pixels of the figure.
+    let scale = svg::S as f64;
+    let w = svg::text_width(t, fs / scale) * scale;
+    let x0 = match n.attribute("text-anchor") {
+        Some("end") => x - w,
+        Some("middle") => x - w / 2.0,
+        _ => x,
+    };
+    let y0 = match n.attribute("dy") {
+        Some("0.76em") => y,
+        Some("-0.5ex") => y - 1.0 * fs,
+        _ => y - 0.5 * fs,
+    };
+    // Glyph boxes are a little inside the em box: shrink by 10 % of the size all round.
+    Some((x0 + 0.1 * fs, y0 + 0.1 * fs, x0 + w - 0.1 * fs, y0 + fs - 0.1 * fs))
+}
+
+/// Pairs of texts whose boxes overlap.
+fn overlapping_texts(svg: &str) -> Vec<(String, String)> {
+    let doc = roxmltree::Document::parse(svg).unwrap();
+    let boxes: Vec<(String, (f64, f64, f64, f64))> = doc
+        .descendants()
+        .filter(|n| n.tag_name().name() == "text")
+        .filter_map(|n| text_box(n).map(|b| (n.text().unwrap_or("").trim().to_string(), b)))
+        .collect();
+    let mut bad = Vec::new();
+    for i in 0..boxes.len() {
+        for j in i + 1..boxes.len() {
+            let (a, b) = (boxes[i].1, boxes[j].1);
+            if a.0 < b.2 && b.0 < a.2 && a.1 < b.3 && b.1 < a.3 {
+                bad.push((boxes[i].0.clone(), boxes[j].0.clone()));
+            }
+        }
+    }
+    bad
+}
+
+/// Points of every polyline drawn in `color` (hex as the SVG writes it), in viewBox units.
+fn polylines(svg: &str, color: &str) -> Vec<Vec<(f64, f64)>> {
+    let doc = roxmltree::Document::parse(svg).unwrap();
+    doc.descendants()
+        .filter(|n| n.tag_name().name() == "polyline" && n.attribute("stroke") == Some(color))
+        .map(|n| {
+            n.attribute("points")
+                .unwrap_or("")
+                .split_whitespace()
+                .filter_map(|p| p.split_once(',').and_then(|(a, b)| Some((a.parse().ok()?, b.parse().ok()?))))
+                .collect()
+        })
+        .collect()
+}
+
+fn hex(c: plotters::style::RGBColor) -> String {
+    format!("#{:02X}{:02X}{:02X}", c.0, c.1, c.2)
+}
+
+/// The legend's box: the white, nearly opaque rectangle.
+fn legend_box(svg: &str) -> Option<(f64, f64, f64, f64)> {
+    let doc = roxmltree::Document::parse(svg).unwrap();
+    doc.descendants()
+        .filter(|n| n.tag_name().name() == "rect" && n.attribute("fill") == Some("#FFFFFF"))
+        .filter(|n| n.attribute("opacity") == Some(&format!("{}", svg::LEGEND_ALPHA)[..]))
+        .filter_map(|n| {
+            let f = |k: &str| n.attribute(k).and_then(|v| v.parse::<f64>().ok());
+            Some((f("x")?, f("y")?, f("x")? + f("width")?, f("y")? + f("height")?))
+        })
+        .next()
+}
+
+/// Whether segment a–b meets the box (sampled finely: boxes are tens of pixels wide).
+fn crosses(a: (f64, f64), b: (f64, f64), r: (f64, f64, f64, f64)) -> bool {
+    (0..=64).any(|k| {
+        let t = k as f64 / 64.0;
+        let (x, y) = (a.0 + t * (b.0 - a.0), a.1 + t * (b.1 - a.1));
+        x > r.0 && x < r.2 && y > r.1 && y < r.3
+    })
+}
+
+#[test]
+fn shallow_lines_have_sub_pixel_coordinates() {
+    // A line rising 4 pixels over the whole width: on whole pixels it would be five flat
+    // steps; at a tenth of a pixel it takes dozens of distinct heights.
+    let x: Vec<f64> = (0..200).map(|k| k as f64 / 199.0).collect();
+    let mut p = line(x.clone(), x.iter().map(|_| 0.0).collect());
+    p.ys.push(x.iter().map(|_| 1.0).collect());
+    p.ys.push(x.iter().map(|t| 0.5 + 0.01 * t).collect());
+    let s = svg::render(&p).unwrap();
+    assert!(s.contains("width=\"800\" height=\"500\" viewBox=\"0 0 8000 5000\""), "{}", &s[..200]);
+    let runs = polylines(&s, &hex(PALETTE[2]));
+    let mut ys: Vec<i64> = runs.iter().flatten().map(|p| p.1 as i64).collect();
+    ys.sort();
+    ys.dedup();
+    assert!(ys.len() >= 25, "only {} distinct heights", ys.len());
+}
+
+#[test]
+fn the_legend_sits_where_the_data_are_not() {
+    // Two curves through every corner region: a sine over two periods and its mirror. No
+    // corner is free, so the figure makes room above the data for the legend.
+    let x: Vec<f64> = (0..400).map(|k| k as f64 / 399.0).collect();
+    let a: Vec<f64> = x.iter().map(|t| (t * 4.0 * std::f64::consts::PI).sin()).collect();
+    let b: Vec<f64> = a.iter().map(|v| -v).collect();
+    let mut p = line(x, a);
+    p.ys.push(b);
+    p.names = vec!["node A".into(), "node B".into()];
+    p.y_unit = "V".into();
+    let s = svg::render(&p).unwrap();
+    let r = legend_box(&s).expect("a legend");
+    for color in [hex(PALETTE[0]), hex(PALETTE[1])] {
+        let runs = polylines(&s, &color);
+        assert!(runs.iter().any(|r| r.len() > 10), "no {color} curve");
+        // (Two-point paths are the legend's own samples.)
+        for run in runs.iter().filter(|r| r.len() > 2) {
+            for w in run.windows(2) {
+                assert!(!crosses(w[0], w[1], r), "legend {r:?} covers the {color} line at {:?}", w[0]);
+            }
+        }
+    }
+    assert!(overlapping_texts(&s).is_empty(), "{:?}", overlapping_texts(&s));
+}
+
+#[test]
+fn no_label_overlaps_another() {
+    // A waterfall whose first contribution is a large negative one, ending near the left
+    // edge: its value label must stay clear of the category labels.
+    let mut b = Plot::new(Kind::Bar);
+    b.title = "Period error budget".into();
+    b.labels = vec!["comparator delay".into(), "switch leakage".into(), "charge injection".into()];
+    b.ys = vec![vec![-2.5e-9, 0.4e-9, -0.1e-9]];
+    b.y_label = "period error".into();
+    b.y_unit = "s".into();
+    b.waterfall = true;
+    let s = svg::render(&b).unwrap();
+    assert!(overlapping_texts(&s).is_empty(), "{:?}", overlapping_texts(&s));
+    // A waveform with labelled thresholds, a spec band, a marked event and a right axis.
+    let x: Vec<f64> = (0..300).map(|k| k as f64 * 1e-7).collect();
+    let mut p = line(x.clone(), x.iter().map(|t| 0.6 + 0.3 * (t * 2e5).sin()).collect());
+    p.y_unit = "V".into();
+    p.y_lines = vec![
+        RefLine { at: 0.9, label: "v_hi".into() },
+        RefLine { at: 0.88, label: "v_hi − hysteresis".into() },
+        RefLine { at: 0.3, label: "v_lo".into() },
+    ];
+    p.x_lines = vec![RefLine { at: 1e-5, label: "trim".into() }, RefLine { at: 1.02e-5, label: "settled".into() }];
+    p.bands = vec![Band { min: Some(0.5), max: Some(0.7), label: "spec".into() }];
+    p.y2 = vec![x.iter().map(|t| 1e-6 + t * 0.01).collect()];
+    p.y2_label = "supply current".into();
+    p.y2_unit = "A".into();
+    p.names = vec!["node".into(), "current".into()];
+    let s = svg::render(&p).unwrap();
+    assert!(overlapping_texts(&s).is_empty(), "{:?}", overlapping_texts(&s));
+    let t = texts(&s);
+    for want in ["v_hi", "v_lo", "trim", "settled", "spec", "supply current (A)", "current (right axis)"] {
+        assert!(t.iter().any(|s| s == want), "no '{want}' in {t:?}");
+    }
+}
+
+#[test]
+fn histogram_marks_mean_and_sigma_apart_from_the_bars() {
+    // Samples 1 … 9: mean 5, sample σ = sqrt(7.5) = 2.74 (by hand).
+    let mut h = Plot::new(Kind::Histogram);
+    h.ys = vec![(1..=9).map(|k| k as f64).collect()];
+    h.x_unit = "V".into();
+    h.stats = true;
+    let s = svg::render(&h).unwrap();
+    let t = texts(&s);
+    for want in ["μ", "−σ", "+σ", "μ 5.00 V, σ 2.74 V"] {
+        assert!(t.iter().any(|x| x == want), "no '{want}' in {t:?}");
+    }
+    // The marks are drawn in the mark colour, not a series colour.
+    assert!(s.contains(&format!("stroke=\"{}\"", hex(svg::MARK))));
+    assert!(overlapping_texts(&s).is_empty(), "{:?}", overlapping_texts(&s));
+}
+
+#[test]
+fn axis_limits_clip_the_data_at_the_frame() {
+    let x: Vec<f64> = (0..=100).map(|k| k as f64 / 50.0).collect();
+    let mut p = line(x.clone(), x.clone());
+    p.x_unit = String::new();
+    p.y_unit = String::new();
+    p.x_max = Some(1.0);
+    p.y_min = Some(0.25);
+    let s = svg::render(&p).unwrap();
+    let doc = roxmltree::Document::parse(&s).unwrap();
+    // The tick label "1" of the x axis marks the right end of the frame.
+    let right = doc
+        .descendants()
+        .filter(|n| n.tag_name().name() == "text" && n.text().map(str::trim) == Some("1"))
+        .filter_map(|n| n.attribute("x").and_then(|v| v.parse::<f64>().ok()))
+        .fold(f64::MIN, f64::max);
+    let pts: Vec<(f64, f64)> = polylines(&s, &hex(PALETTE[0])).into_iter().flatten().collect();
+    assert!(!pts.is_empty());
+    assert!(pts.iter().all(|p| p.0 <= right + 1.0), "a point beyond x = 1 at {right}");
+}
+
+#[test]
+fn events_of_a_transient_are_marked_by_kind() {
+    let code = r#"
+        let o = osc("window", #{c: 1p, i: 1u, v_lo: 0.6, v_hi: 1.2, vdd: 1.8});
+        let s = o.simulate(3);
+        plot(#{title: "events", x: s.t, y: s.v, events: s.events, x_unit: "s", y_unit: "V"})
+    "#;
+    let svg_of = |code: &str| {
+        let dir = tempfile::tempdir().unwrap();
+        let sandbox = tickwork::engine::sandbox::Sandbox::new(dir.path(), &dir.path().join("out"), dir.path()).unwrap();
+        let mut s = tickwork::engine::session::Session::new("t", sandbox);
+        s.echo = false;
+        let shared = tickwork::engine::session::Shared::new(s);
+        let e = tickwork::engine::build(&shared, tickwork::engine::DEFAULT_MAX_OPS);
+        tickwork::engine::script::run_source(&e, &shared, "t.rhai", code, tickwork::engine::DEFAULT_MAX_OPS).unwrap();
+        let g = shared.lock();
+        g.report.figures().next().map(|f| f.svg.clone()).unwrap()
+    };
+    let s = svg_of(code);
+    let t = texts(&s);
+    assert!(t.iter().any(|x| x == "crossing") && t.iter().any(|x| x == "decision"), "{t:?}");
+    assert!(overlapping_texts(&s).is_empty(), "{:?}", overlapping_texts(&s));
 }

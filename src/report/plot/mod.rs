@@ -1,10 +1,36 @@
 //! Plots: a plain description (kind, data, labels, axes) checked before drawing, and its
 //! rendering to SVG with plotters.
 use crate::num::math;
+pub mod clip;
 pub mod font;
 pub mod svg;
 pub mod thin;
 pub mod ticks;
+
+/// A labelled straight line across the plot at one value: a threshold, a spec limit.
+#[derive(Clone, Debug, PartialEq)]
+pub struct RefLine {
+    pub at: f64,
+    pub label: String,
+}
+
+/// A shaded band of y values, such as a spec window; an open end reaches the frame.
+#[derive(Clone, Debug, Default, PartialEq)]
+pub struct Band {
+    pub min: Option<f64>,
+    pub max: Option<f64>,
+    /// Legend entry (may be empty).
+    pub label: String,
+}
+
+/// A marked event: where it happened (x, and y when known: a point on the curve, else a mark
+/// on the top edge) and its kind; each kind gets a marker shape and a legend entry.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Event {
+    pub x: f64,
+    pub y: Option<f64>,
+    pub kind: String,
+}
 
 /// The kinds of chart.
 #[derive(Clone, Copy, Debug, PartialEq)]
@@ -20,6 +46,16 @@ pub enum Kind {
 }
 
 impl Kind {
+    /// The script-level name.
+    pub fn name(self) -> &'static str {
+        match self {
+            Kind::Line => "line",
+            Kind::Scatter => "scatter",
+            Kind::Step => "step",
+            Kind::Histogram => "histogram",
+            Kind::Bar => "bar",
+        }
+    }
     pub const NAMES: &'static str = "line, scatter, step, histogram, bar";
     pub fn parse(s: &str) -> Result<Kind, String> {
         Ok(match s {
@@ -57,8 +93,25 @@ pub struct Plot {
     /// Bar: stack the bars end to end and add a total bar.
     pub waterfall: bool,
     pub total_label: String,
-    /// Histogram: mark each sample set's mean and give mean and standard deviation in the legend.
+    /// Histogram: mark each sample set's mean and ±σ and give them in the legend.
     pub stats: bool,
+    /// Reference lines at x values (vertical) and y values (horizontal).
+    pub x_lines: Vec<RefLine>,
+    pub y_lines: Vec<RefLine>,
+    /// Shaded bands of y values (line, scatter, step).
+    pub bands: Vec<Band>,
+    /// Event markers (line, scatter, step).
+    pub events: Vec<Event>,
+    /// Axis limits (None: from the data); data outside are clipped at the frame.
+    pub x_min: Option<f64>,
+    pub x_max: Option<f64>,
+    pub y_min: Option<f64>,
+    pub y_max: Option<f64>,
+    /// Series on a secondary y axis at the right (line, scatter, step); `names` lists `ys`
+    /// first, then these.
+    pub y2: Vec<Vec<f64>>,
+    pub y2_label: String,
+    pub y2_unit: String,
 }
 
 impl Plot {
@@ -80,6 +133,17 @@ impl Plot {
             waterfall: false,
             total_label: "total".into(),
             stats: false,
+            x_lines: vec![],
+            y_lines: vec![],
+            bands: vec![],
+            events: vec![],
+            x_min: None,
+            x_max: None,
+            y_min: None,
+            y_max: None,
+            y2: vec![],
+            y2_label: String::new(),
+            y2_unit: String::new(),
         }
     }
 
@@ -91,9 +155,11 @@ impl Plot {
                 _ => "plot: key 'y' is missing or empty".into(),
             });
         }
-        if !self.names.is_empty() && self.names.len() != self.ys.len() {
-            return Err(format!("plot: 'names' has {} entries for {} series", self.names.len(), self.ys.len()));
+        let n_series = self.ys.len() + self.y2.len();
+        if !self.names.is_empty() && self.names.len() != n_series {
+            return Err(format!("plot: 'names' has {} entries for {n_series} series", self.names.len()));
         }
+        self.check_marks()?;
         let series =
             |k: usize| self.names.get(k).map(|n| format!("series '{n}'")).unwrap_or(format!("series {}", k + 1));
         match self.kind {
@@ -164,6 +230,91 @@ impl Plot {
                 && let Some(v) = y.iter().find(|v| v.is_finite() && **v <= 0.0)
             {
                 return Err(format!("plot: log_y needs y > 0, but {} holds {v}", series(k)));
+            }
+        }
+        Ok(())
+    }
+}
+
+impl Plot {
+    /// Reference lines, bands, events, limits and the secondary axis.
+    fn check_marks(&self) -> Result<(), String> {
+        let xy = matches!(self.kind, Kind::Line | Kind::Scatter | Kind::Step);
+        let only_xy = |key: &str, used: bool| {
+            if used && !xy {
+                Err(format!("plot: '{key}' is for line, scatter and step plots, not {}", self.kind.name()))
+            } else {
+                Ok(())
+            }
+        };
+        only_xy("band", !self.bands.is_empty())?;
+        only_xy("events", !self.events.is_empty())?;
+        only_xy("y2", !self.y2.is_empty())?;
+        let lines = !self.x_lines.is_empty() || !self.y_lines.is_empty();
+        if lines && self.kind == Kind::Bar {
+            return Err("plot: 'x_lines' and 'y_lines' are for line, scatter, step and histogram plots".into());
+        }
+        let limits = [self.x_min, self.x_max, self.y_min, self.y_max].iter().any(Option::is_some);
+        only_xy("x_min, x_max, y_min and y_max", limits)?;
+        let positive = |key: &str, log: bool, v: f64| {
+            if !v.is_finite() {
+                Err(format!("plot: '{key}' holds {v}; it must be a finite number"))
+            } else if log && v <= 0.0 {
+                Err(format!("plot: '{key}' holds {v}, but a log axis needs values > 0"))
+            } else {
+                Ok(())
+            }
+        };
+        for l in &self.x_lines {
+            positive("x_lines", self.log_x, l.at)?;
+        }
+        for l in &self.y_lines {
+            positive("y_lines", self.log_y, l.at)?;
+        }
+        for b in &self.bands {
+            for v in [b.min, b.max].into_iter().flatten() {
+                positive("band", self.log_y, v)?;
+            }
+            match (b.min, b.max) {
+                (None, None) => return Err("plot: a 'band' needs min, max or both".into()),
+                (Some(a), Some(c)) if a >= c => {
+                    return Err(format!("plot: 'band' min {a} is not below its max {c}"));
+                }
+                _ => {}
+            }
+        }
+        for (k, e) in self.events.iter().enumerate() {
+            if !e.x.is_finite() || e.y.is_some_and(|y| !y.is_finite()) {
+                return Err(format!("plot: event {k} is not at a finite place"));
+            }
+        }
+        for (axis, lo, hi, log) in
+            [("x", self.x_min, self.x_max, self.log_x), ("y", self.y_min, self.y_max, self.log_y)]
+        {
+            for v in [lo, hi].into_iter().flatten() {
+                positive(&format!("{axis}_min/{axis}_max"), log, v)?;
+            }
+            if let (Some(a), Some(b)) = (lo, hi)
+                && a >= b
+            {
+                return Err(format!("plot: {axis}_min {a} is not below {axis}_max {b}"));
+            }
+        }
+        for (k, y) in self.y2.iter().enumerate() {
+            if y.len() != self.x.len() {
+                return Err(format!(
+                    "plot: 'x' has {} values but series {} of 'y2' has {}",
+                    self.x.len(),
+                    k + 1,
+                    y.len()
+                ));
+            }
+            if let Some((i, v)) = y.iter().enumerate().find(|(_, v)| !v.is_finite()) {
+                return Err(format!(
+                    "plot: element {i} of series {} of 'y2' is {}; {NOT_FINITE}",
+                    k + 1,
+                    not_finite(*v)
+                ));
             }
         }
         Ok(())

@@ -211,6 +211,17 @@ impl Axis {
         format::trim_zeros(&format!("{:.decimals$}{prefix}", w / math::pow(10f64, p3 as f64)))
     }
 
+    /// This axis with its ends moved to `lo` and `hi` (drawing coordinates), keeping the ticks
+    /// and grid lines between them: axis limits, and log axes that end where the data end.
+    pub fn limited(mut self, lo: f64, hi: f64) -> Axis {
+        let eps = 1e-9 * (hi - lo).abs();
+        self.lo = lo;
+        self.hi = hi;
+        self.ticks.retain(|t| *t >= lo - eps && *t <= hi + eps);
+        self.minor.retain(|t| *t >= lo - eps && *t <= hi + eps);
+        self
+    }
+
     /// Labels of all ticks, in order.
     pub fn labels(&self, unit: &str) -> Vec<String> {
         self.ticks.iter().map(|t| self.label(*t, unit)).collect()
