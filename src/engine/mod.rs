@@ -2,12 +2,14 @@
 //! access, and registration of every native module. The only layer that knows about Rhai.
 pub mod analysis_api;
 pub mod api;
+pub mod args;
 pub mod core_api;
 pub mod docs;
 pub mod errors;
 pub mod fit_api;
 pub mod physics_api;
 pub mod prepass;
+pub mod reference_api;
 pub mod report_api;
 pub mod resolver;
 pub mod sandbox;
@@ -66,6 +68,7 @@ pub fn build(session: &Shared, max_ops: u64) -> Engine {
     series_api::register(&mut engine);
     report_api::register(&mut engine, session);
     physics_api::register(&mut engine, session);
+    reference_api::register(&mut engine);
     timing_api::register(&mut engine, session);
     analysis_api::register(&mut engine);
     fit_api::register(&mut engine, session);

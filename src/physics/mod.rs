@@ -10,5 +10,6 @@ pub mod mismatch;
 pub mod mosfet;
 pub mod noise;
 pub mod process;
+pub mod reference;
 pub mod resistor;
 pub mod switch;
