@@ -5,6 +5,7 @@ mod analysis_fit;
 mod analysis_noise;
 mod architecture;
 mod bad_input;
+mod cli_streams;
 mod cli_util;
 mod docs_coverage;
 mod engine_errors;
