@@ -52,10 +52,10 @@ fn a_folder_runs_recursively_with_sub_paths_and_one_index() {
         "{index}"
     );
     assert!(
-        index.contains("| [ref/period](ref/period/report.md) | `ref.c` | 1.000 pF | 500 fF … 2.00 pF | pass |"),
+        index.contains("| [ref/period](ref/period/report.md) | `ref.c` | 1.00 pF | 500 fF … 2.00 pF | pass |"),
         "{index}"
     );
-    assert!(index.contains("| [top](top/report.md) | `top.n` | 3.000 | — | — |"), "{index}");
+    assert!(index.contains("| [top](top/report.md) | `top.n` | 3.00 | — | — |"), "{index}");
     // Stable order and bytes: a second run with one thread writes the same index.
     let o = p.tickwork(&["run", "design", "--out", "out", "--threads", "1"]);
     assert_eq!(o.status.code(), Some(0));
