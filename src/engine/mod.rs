@@ -6,6 +6,7 @@ pub mod core_api;
 pub mod docs;
 pub mod errors;
 pub mod fit_api;
+pub mod grid_api;
 pub mod physics_api;
 pub mod prepass;
 pub mod report_api;
@@ -68,6 +69,7 @@ pub fn build(session: &Shared, max_ops: u64) -> Engine {
     physics_api::register(&mut engine, session);
     timing_api::register(&mut engine, session);
     analysis_api::register(&mut engine);
+    grid_api::register(&mut engine);
     fit_api::register(&mut engine, session);
     engine
 }
