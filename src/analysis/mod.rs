@@ -12,6 +12,7 @@ pub mod sensitivity;
 pub mod solve;
 pub mod stats;
 pub mod tempco;
+pub mod trim;
 
 /// A test oscillator: the basic keys c = 1 pF, i = 1 µA, v_lo = 0.6 V, v_hi = 1.2 V and `extra`.
 #[cfg(test)]

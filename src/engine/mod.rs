@@ -10,6 +10,7 @@ pub mod fit_api;
 pub mod grid_api;
 pub mod physics_api;
 pub mod prepass;
+pub mod reference_api;
 pub mod report_api;
 pub mod resolver;
 pub mod sandbox;
@@ -68,6 +69,7 @@ pub fn build(session: &Shared, max_ops: u64) -> Engine {
     series_api::register(&mut engine);
     report_api::register(&mut engine, session);
     physics_api::register(&mut engine, session);
+    reference_api::register(&mut engine);
     timing_api::register(&mut engine, session);
     analysis_api::register(&mut engine);
     grid_api::register(&mut engine);

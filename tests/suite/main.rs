@@ -26,6 +26,7 @@ mod report_plot;
 mod report_run;
 mod series_math;
 mod stdlib_modules;
+mod timing_generators;
 mod timing_noise;
 mod timing_process;
 mod timing_properties;
