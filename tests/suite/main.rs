@@ -6,6 +6,7 @@ mod analysis_grid;
 mod analysis_noise;
 mod architecture;
 mod bad_input;
+mod cli_streams;
 mod cli_util;
 mod docs_coverage;
 mod engine_errors;
