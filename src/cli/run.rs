@@ -40,7 +40,7 @@ pub struct RunArgs {
     #[arg(long = "set", value_name = "NAME=VALUE")]
     pub set: Vec<String>,
     /// Seed of every random stream (Monte Carlo)
-    #[arg(long, default_value_t = 1)]
+    #[arg(long, default_value_t = 1, allow_negative_numbers = true, value_parser = super::parse_seed)]
     pub seed: u64,
     /// Stop a script after this many operations (at least 1)
     #[arg(long, default_value_t = engine::DEFAULT_MAX_OPS, value_parser = clap::value_parser!(u64).range(1..))]

@@ -12,6 +12,7 @@ pub mod fit_api;
 pub mod physics_api;
 pub mod prepass;
 pub mod reference_api;
+pub mod repl_session;
 pub mod report_api;
 pub mod resolver;
 pub mod sandbox;

@@ -471,7 +471,7 @@ pub fn register(engine: &mut Engine, session: &Shared) {
         engine,
         "o.simulate(cycles: int) -> map",
         &format!(
-            "behavioural transient run of 1..={MAX_CYCLES} cycles with every parasitic, from a defined start (window, schmitt: node at the low threshold; reset, pingpong: capacitors at the reset level; rc-inverter: capacitor discharged, X = vdd): t (s) and v (V; v2 = capacitor B for pingpong) Series of the waveform, names (the nodes), events #{{t (s), v (V), what (\"crossing\", \"decision\", \"switch\"), phase, label}}, periods and duties (one per cycle), period (s) and duty of the steady state (mean of the last quarter of the cycles), frequency (Hz), settle_cycles (cycles more than {SETTLE_RTOL:e} off the steady period), v_min, v_max (V), steps"
+            "behavioural transient run of 1..={MAX_CYCLES} cycles with every parasitic, from a defined start (window, schmitt: node at the low threshold; reset, pingpong: capacitors at the reset level; rc-inverter: capacitor discharged, X = vdd): t (s) and v (V; v2 = capacitor B for pingpong) Series of the waveform, names (the nodes), events (a map of parallel arrays, one element per event, so each goes straight to table or plot: #{{t (s), v (V), what (\"crossing\", \"decision\", \"switch\"), phase, label}}; event k is events.t[k], events.what[k], …), periods and duties (one per cycle), period (s) and duty of the steady state (mean of the last quarter of the cycles), frequency (Hz), settle_cycles (cycles more than {SETTLE_RTOL:e} off the steady period), v_min, v_max (V), steps"
         ),
         |o: &mut Osc, cycles: Dynamic| -> R<Map> {
             Ok(transient_map(lift(simulate(o, cycles_arg(&cycles)?, &Options::default()))?))

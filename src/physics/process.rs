@@ -133,6 +133,8 @@ impl Process {
 
     /// Parse a process description; `file` names the source in error messages.
     pub fn from_toml(text: &str, file: &str) -> Result<Process, String> {
+        // A UTF-8 byte-order mark, as some editors write one, is not part of the file.
+        let text = text.strip_prefix('\u{feff}').unwrap_or(text);
         Self::parse_toml(text, file).map_err(|e| locate(text, file, &e))
     }
 

@@ -106,7 +106,8 @@ fn parse_case(path: &Path) -> Result<Case, String> {
     let marker = if name.ends_with(".toml") { "#" } else { "//" };
     let mut case = Case { path: path.to_path_buf(), name: name.clone(), text: text.clone(), ..Default::default() };
     let mut lines = text.lines();
-    let first = lines.next().unwrap_or("");
+    // A case may start with a byte-order mark (the case of a file that has one).
+    let first = lines.next().unwrap_or("").trim_start_matches('\u{feff}');
     if !first.trim_start().starts_with(&format!("{marker} expect:")) {
         return Err(format!("the first line must be `{marker} expect: ...`"));
     }
