@@ -31,6 +31,10 @@ pub struct RunArgs {
     /// Seed of every random stream (Monte Carlo)
     #[arg(long, default_value_t = 1)]
     pub seed: u64,
+    /// Worker threads of Monte Carlo runs and sweeps (default: all cores); results are the
+    /// same for any count
+    #[arg(long, value_parser = clap::value_parser!(u64).range(1..=crate::analysis::parallel::MAX_THREADS as u64))]
+    pub threads: Option<u64>,
     /// Stop a script after this many operations (at least 1)
     #[arg(long, default_value_t = engine::DEFAULT_MAX_OPS, value_parser = clap::value_parser!(u64).range(1..))]
     pub max_ops: u64,
@@ -106,6 +110,7 @@ fn run_one(a: &RunArgs, file: &Path, sets: &BTreeMap<String, String>) -> i32 {
     let mut session = Session::new(&name, sandbox);
     session.overrides = sets.clone();
     session.seed = a.seed;
+    session.threads = a.threads.unwrap_or(0) as usize;
     let shared = Shared::new(session);
     let engine = engine::build(&shared, a.max_ops);
     if let Err(e) = run_source(&engine, &shared, &shown, &text, a.max_ops) {

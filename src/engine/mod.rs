@@ -6,6 +6,7 @@ pub mod core_api;
 pub mod docs;
 pub mod errors;
 pub mod fit_api;
+pub mod monte_carlo_api;
 pub mod physics_api;
 pub mod prepass;
 pub mod report_api;
@@ -69,5 +70,6 @@ pub fn build(session: &Shared, max_ops: u64) -> Engine {
     timing_api::register(&mut engine, session);
     analysis_api::register(&mut engine);
     fit_api::register(&mut engine, session);
+    monte_carlo_api::register(&mut engine, session);
     engine
 }
