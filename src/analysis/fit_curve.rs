@@ -148,15 +148,16 @@ pub fn fit_curve(f: &mut Model, x: &[f64], y: &[f64], p0: &[f64]) -> Result<Fit,
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::num::math;
 
     #[test]
     fn exponential_decay_is_recovered_exactly() {
         // y = 2·exp(−x/3) + 0.5 sampled exactly; LM from a poor start reaches it.
         let x: Vec<f64> = (0..20).map(|k| k as f64 * 0.5).collect();
-        let y: Vec<f64> = x.iter().map(|v| 2.0 * (-v / 3.0).exp() + 0.5).collect();
+        let y: Vec<f64> = x.iter().map(|v| 2.0 * math::exp(-v / 3.0) + 0.5).collect();
         let xs = x.clone();
         let mut f = |p: &[f64]| -> Result<Vec<f64>, String> {
-            Ok(xs.iter().map(|v| p[0] * (-v / p[1]).exp() + p[2]).collect())
+            Ok(xs.iter().map(|v| p[0] * math::exp(-v / p[1]) + p[2]).collect())
         };
         let fit = fit_curve(&mut f, &x, &y, &[1.0, 1.0, 0.0]).unwrap();
         for (got, want) in fit.coef.iter().zip([2.0, 3.0, 0.5]) {

@@ -9,6 +9,7 @@
 //! node is reset (reset, ping-pong), it does not. Periods are linear in these variables, so
 //! the period variance, the cycle-to-cycle variance and the variance accumulated over N
 //! cycles follow exactly from their coefficients.
+use crate::num::math;
 use crate::num::quad::integrate;
 use crate::timing::noise::{Noise, carries_over};
 use crate::timing::osc::View;
@@ -187,7 +188,7 @@ pub fn cosine_integral(x: f64) -> f64 {
                 break;
             }
         }
-        EULER + x.ln() + sum
+        EULER + math::ln(x) + sum
     } else {
         // f(x) ~ (1/x)·Σ (−1)^k (2k)!/x^{2k}, g(x) ~ (1/x²)·Σ (−1)^k (2k+1)!/x^{2k}; Ci = f·sin − g·cos.
         let (mut f, mut g, mut tf, mut tg) = (0.0, 0.0, 1.0, 1.0);
@@ -200,13 +201,13 @@ pub fn cosine_integral(x: f64) -> f64 {
             f += tf;
             g += tg;
         }
-        (f / x) * x.sin() - (g / (x * x)) * x.cos()
+        (f / x) * math::sin(x) - (g / (x * x)) * math::cos(x)
     }
 }
 
 /// ∫_a^∞ sin²u / u³ du = sin²a/(2a²) + sin(2a)/(2a) − Ci(2a) (integration by parts twice).
 pub fn sin2_over_u3(a: f64) -> f64 {
-    a.sin().powi(2) / (2.0 * a * a) + (2.0 * a).sin() / (2.0 * a) - cosine_integral(2.0 * a)
+    math::sin(a).powi(2) / (2.0 * a * a) + math::sin(2.0 * a) / (2.0 * a) - cosine_integral(2.0 * a)
 }
 
 /// Timing variance accumulated over τ from fractional frequency noise S_y(f):
@@ -219,7 +220,7 @@ pub fn flicker_variance(h_m1: f64, tau: f64, f_min: f64) -> f64 {
 /// The same integral by quadrature, for a white level h₀ (check: h₀·τ/2).
 pub fn white_variance_by_quadrature(h0: f64, tau: f64) -> Result<f64, String> {
     // Substituting u = πfτ: h₀·τ/π · ∫_0^∞ sin²u/u² du, and ∫_0^∞ sin²u/u² du = π/2.
-    let inner = |u: f64| if u == 0.0 { 1.0 } else { (u.sin() / u).powi(2) };
+    let inner = |u: f64| if u == 0.0 { 1.0 } else { (math::sin(u) / u).powi(2) };
     // One lobe [kπ, (k+1)π] at a time: each is smooth, so the rule converges on it.
     let pi = std::f64::consts::PI;
     let mut body = 0.0;
@@ -284,7 +285,7 @@ mod tests {
         // ∫_a^∞ sin²u/u³ du by adaptive Gauss–Kronrod on [a, 400] plus the tail ≈ 1/(4·400²)
         // (the oscillating part of the tail is below 1e-8), against the closed form.
         for a in [std::f64::consts::PI * 1e-3, 0.3, 2.0] {
-            let body = integrate(|u: f64| u.sin().powi(2) / u.powi(3), a, 400.0, 1e-12).unwrap();
+            let body = integrate(|u: f64| math::sin(u).powi(2) / u.powi(3), a, 400.0, 1e-12).unwrap();
             let want = body + 1.0 / (4.0 * 400.0 * 400.0);
             assert!((sin2_over_u3(a) - want).abs() < 1e-7, "a = {a}: {} vs {want}", sin2_over_u3(a));
         }

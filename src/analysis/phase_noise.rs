@@ -2,6 +2,7 @@
 //! carrier whose phase diffuses (Demir, Mehrotra and Roychowdhury, IEEE TCAS-I 2000), the
 //! usual figure of merit, and the minimum achievable phase noise of relaxation oscillators
 //! (Navid, Lee and Dutton, IEEE JSSC 2005) as a check that the model does not beat physics.
+use crate::num::math;
 use crate::physics::constants::K_B;
 
 /// Single-sideband phase noise L(f_m), linear (1/Hz), of a carrier f0 whose timing variance
@@ -13,13 +14,13 @@ pub fn lorentzian(f0: f64, c: f64, fm: f64) -> f64 {
 
 /// Linear ratio in decibels, 10·log10(x).
 pub fn db(x: f64) -> f64 {
-    10.0 * x.log10()
+    10.0 * math::log10(x)
 }
 
 /// Oscillator figure of merit, dB: −L(f_m) + 20·log10(f0/f_m) − 10·log10(P / 1 mW)
 /// (common practice).
 pub fn figure_of_merit(l_dbc: f64, f0: f64, fm: f64, power: f64) -> f64 {
-    -l_dbc + 20.0 * (f0 / fm).log10() - db(power / 1e-3)
+    -l_dbc + 20.0 * math::log10(f0 / fm) - db(power / 1e-3)
 }
 
 /// Navid, Lee and Dutton's minimum phase noise of an RC (ring or relaxation) oscillator:
@@ -89,7 +90,7 @@ mod tests {
         let a = std::f64::consts::PI * f0 * f0 * c;
         let total = 2.0
             * crate::num::quad::integrate(
-                |u: f64| lorentzian(f0, c, a * u.tan()) * a / u.cos().powi(2),
+                |u: f64| lorentzian(f0, c, a * math::tan(u)) * a / math::cos(u).powi(2),
                 0.0,
                 std::f64::consts::FRAC_PI_2 - 1e-9,
                 1e-10,

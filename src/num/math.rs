@@ -56,6 +56,12 @@ pub fn asinh(x: f64) -> f64 {
     libm::asinh(x)
 }
 
+/// Base-2 logarithm (musl libm).
+#[inline]
+pub fn log2(x: f64) -> f64 {
+    libm::log2(x)
+}
+
 /// Sine and cosine (musl libm).
 #[inline]
 pub fn sin(x: f64) -> f64 {
@@ -64,6 +70,11 @@ pub fn sin(x: f64) -> f64 {
 #[inline]
 pub fn cos(x: f64) -> f64 {
     libm::cos(x)
+}
+/// Tangent (musl libm).
+#[inline]
+pub fn tan(x: f64) -> f64 {
+    libm::tan(x)
 }
 #[inline]
 pub fn atan(x: f64) -> f64 {

@@ -1,4 +1,5 @@
 //! Numerical quadrature.
+use crate::num::math;
 
 /// 7-point Gauss–Kronrod 15 rule (nodes and weights from Piessens et al., QUADPACK, 1983):
 /// returns (K15 estimate, error estimate) on [a, b]. The error estimate is QUADPACK's (QK15):
@@ -58,7 +59,7 @@ fn gk15(f: &impl Fn(f64) -> f64, a: f64, b: f64) -> (f64, f64) {
     let (resabs, resasc) = (resabs * h, resasc * h);
     let mut err = ((resk - resg) * h).abs();
     if resasc != 0.0 && err != 0.0 {
-        err = resasc * (200.0 * err / resasc).powf(1.5).min(1.0);
+        err = resasc * math::pow(200.0 * err / resasc, 1.5).min(1.0);
     }
     if resabs > f64::MIN_POSITIVE / (50.0 * f64::EPSILON) {
         err = err.max(50.0 * f64::EPSILON * resabs);

@@ -1,5 +1,6 @@
 //! SI prefixes (BIPM, The International System of Units, 9th edition 2019, table 7):
 //! parsing suffixes of literals and engineering-notation formatting.
+use crate::num::math;
 
 /// The prefixes accepted after a number. Case-sensitive: `m` is milli, `M` is mega.
 /// `u`, `µ` (micro sign) and `μ` (Greek mu) all mean micro. Centi, deci, deca and hecto are left
@@ -92,7 +93,7 @@ pub fn eng(x: f64, unit: &str, digits: usize) -> String {
     if power > 1 {
         return eng_power(rounded, unit, digits, power);
     }
-    let exp10 = rounded.abs().log10().floor() as i32;
+    let exp10 = math::log10(rounded.abs()).floor() as i32;
     let exp3 = exp10.div_euclid(3) * 3;
     match prefix_symbol(exp3) {
         Some(p) => {
@@ -142,7 +143,7 @@ pub fn plain(x: f64, digits: usize) -> String {
         return "0".into();
     }
     let rounded: f64 = format!("{:.*e}", digits - 1, x).parse().unwrap_or(x);
-    let e = rounded.abs().log10().floor() as i32;
+    let e = math::log10(rounded.abs()).floor() as i32;
     if !(-4..9).contains(&e) {
         return format!("{:.*e}", digits - 1, rounded);
     }
@@ -169,12 +170,12 @@ fn unit_power(unit: &str) -> i32 {
 /// (SI Brochure 9th ed., 3: "µm²" means (µm)², so 1 µm² = 1e-12 m²). The prefix is chosen so
 /// that the side length of an area sits between 0.1 and 100 of the prefixed unit.
 fn eng_power(x: f64, unit: &str, digits: usize, power: i32) -> String {
-    let root = x.abs().powf(1.0 / power as f64);
-    let exp3 = ((root.log10() + 1.0) / 3.0).floor() as i32 * 3;
+    let root = math::pow(x.abs(), 1.0 / power as f64);
+    let exp3 = ((math::log10(root) + 1.0) / 3.0).floor() as i32 * 3;
     match prefix_symbol(exp3) {
         Some(p) => {
             let mant = x / 10f64.powi(exp3 * power);
-            let int_digits = mant.abs().log10().floor() as i32 + 1;
+            let int_digits = math::log10(mant.abs()).floor() as i32 + 1;
             let decimals = (digits as i32 - int_digits).max(0) as usize;
             format!("{mant:.decimals$} {p}{unit}")
         }

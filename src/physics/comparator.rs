@@ -2,6 +2,7 @@
 //! `v_swing` to toggle, built either from explicit numbers or from a differential input pair of
 //! the process. Input offset (systematic + Pelgrom), input capacitance versus common mode,
 //! delay for a step and for a ramp, optional hysteresis, and the pair-area trade-off.
+use crate::num::math;
 use std::f64::consts::PI;
 
 use super::mirror::{Mirror, MirrorKind};
@@ -273,9 +274,9 @@ pub fn step_delay(a0: f64, tau: f64, slew: f64, dv: f64, vod: f64) -> f64 {
     if v1 >= dv {
         dv / slew
     } else if v1 > 0.0 {
-        v1 / slew + tau * ((target - v1) / (target - dv)).ln()
+        v1 / slew + tau * math::ln((target - v1) / (target - dv))
     } else {
-        -tau * (-dv / target).ln_1p()
+        -tau * math::ln_1p(-dv / target)
     }
 }
 
@@ -292,9 +293,9 @@ pub fn ramp_delay(a0: f64, tau: f64, slew: f64, dv: f64, slope: f64) -> f64 {
         // An instant step of unbounded size: slewing from the start.
         return dv / slew;
     }
-    let lin = |t: f64| k * (t - tau * (-(-t / tau).exp_m1()));
+    let lin = |t: f64| k * (t - tau * (-math::exp_m1(-t / tau)));
     // Time the linear rate reaches the slew rate (never when A0·s ≤ SR).
-    let t_s = if k > slew { -tau * (-slew / k).ln_1p() } else { f64::INFINITY };
+    let t_s = if k > slew { -tau * math::ln_1p(-slew / k) } else { f64::INFINITY };
     let v_s = if t_s.is_finite() { lin(t_s) } else { f64::INFINITY };
     if v_s <= dv {
         return t_s + (dv - v_s) / slew;

@@ -1,16 +1,17 @@
 //! The EKV interpolation function and its helpers (normalised, dimensionless).
+use crate::num::math;
 
 /// ln(1 + e^y) without overflow or loss of precision.
 pub fn softplus(y: f64) -> f64 {
-    if y > 0.0 { y + (-y).exp().ln_1p() } else { y.exp().ln_1p() }
+    if y > 0.0 { y + math::ln_1p(math::exp(-y)) } else { math::ln_1p(math::exp(y)) }
 }
 
 /// 1/(1 + e^−y) without overflow.
 pub fn sigmoid(y: f64) -> f64 {
     if y >= 0.0 {
-        1.0 / (1.0 + (-y).exp())
+        1.0 / (1.0 + math::exp(-y))
     } else {
-        let e = y.exp();
+        let e = math::exp(y);
         e / (1.0 + e)
     }
 }
@@ -28,7 +29,7 @@ pub fn df(x: f64) -> f64 {
 /// Inverse of F: x with F(x) = i, i > 0 (algebraic inverse of the EKV 1995 interpolation).
 pub fn f_inv(i: f64) -> f64 {
     let s = i.sqrt();
-    if s < 30.0 { 2.0 * s.exp_m1().ln() } else { 2.0 * (s + (-(-s).exp()).ln_1p()) }
+    if s < 30.0 { 2.0 * math::ln(math::exp_m1(s)) } else { 2.0 * (s + math::ln_1p(-math::exp(-s))) }
 }
 
 /// Normalised inversion charge q from normalised current i: q = √(1/4 + i) − 1/2

@@ -1,4 +1,5 @@
 //! Depletion capacitance of a pn junction.
+use crate::num::math;
 
 /// Fraction of the built-in potential beyond which forward bias is linearised (common practice).
 pub const FC: f64 = 0.5;
@@ -9,10 +10,10 @@ pub const FC: f64 = 0.5;
 pub fn junction_cap(cj0: f64, v_reverse: f64, phi: f64, m: f64) -> f64 {
     let vf = -v_reverse;
     if vf < FC * phi {
-        cj0 / (1.0 + v_reverse / phi).powf(m)
+        cj0 / math::pow(1.0 + v_reverse / phi, m)
     } else {
         // Tangent of cj0 (1 − vf/φ)^−m at vf = FC·φ.
-        cj0 / (1.0 - FC).powf(1.0 + m) * (1.0 - FC * (1.0 + m) + m * vf / phi)
+        cj0 / math::pow(1.0 - FC, 1.0 + m) * (1.0 - FC * (1.0 + m) + m * vf / phi)
     }
 }
 

@@ -6,6 +6,7 @@
 use super::mismatch;
 use super::mosfet::{Mos, MosType};
 use super::process::Process;
+use crate::num::math;
 use crate::num::roots::brent;
 
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -175,7 +176,7 @@ impl Mirror {
         match &self.model {
             Model::Explicit { i0, rout, v_c, .. } => {
                 let line = i0 + (v - v_c) / rout;
-                line * (1.0 - 100f64.powf(-v / v_c))
+                line * (1.0 - math::pow(100f64, -v / v_c))
             }
             Model::Devices { m_out, c_out, vg, vb, .. } => match self.kind {
                 MirrorKind::Simple => m_out.id(*vg, v, self.temp),
@@ -231,7 +232,7 @@ impl Mirror {
         }
         let r = |h: f64| self.rout(self.frame(h));
         let target = frac * r(headroom_max - 2e-3);
-        let f = |h: f64| (r(h) / target).ln();
+        let f = |h: f64| math::ln(r(h) / target);
         let step = 5e-3;
         let mut hi = headroom_max - 2e-3;
         while hi - step > 2e-3 {

@@ -7,6 +7,7 @@ use super::ekv;
 use super::junction::junction_cap;
 use super::mismatch;
 use super::process::{MosParams, Process};
+use crate::num::math;
 
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum MosType {
@@ -110,7 +111,7 @@ impl Mos {
 
     /// Current factor β = µCox·W/L with µ ∝ (T/Tnom)^−mu_exp (Sze; common practice), A/V².
     pub fn beta(&self, temp_c: f64) -> f64 {
-        self.p.kp * (kelvin(temp_c) / kelvin(self.tnom)).powf(-self.p.mu_exp) * self.w / self.l
+        self.p.kp * math::pow(kelvin(temp_c) / kelvin(self.tnom), -self.p.mu_exp) * self.w / self.l
     }
 
     /// Specific current I_spec = 2nβU_T² (Enz, Krummenacher, Vittoz 1995), A.

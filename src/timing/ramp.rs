@@ -108,6 +108,7 @@ pub fn steady<const N: usize, T>(
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::num::math;
     #[test]
     fn constant_ramp() {
         // t = C·ΔV/I (charge balance): 1 pF over 1 V at 1 µA is 1 µs
@@ -120,8 +121,8 @@ mod tests {
     fn rc_ramp_and_stall() {
         // RC charging toward 1 V: t = RC·ln((1−v0)/(1−v1)) (first-order circuit, textbook)
         let t = ramp_time(|_| 1e-12, |v| (1.0 - v) / 1e6, 0.0, 0.5).unwrap();
-        assert!((t / (1e-6 * 2f64.ln()) - 1.0).abs() < 1e-12);
-        let v = advance(|_| 1e-12, |v| (1.0 - v) / 1e6, 0.0, 1e-6 * 2f64.ln()).unwrap();
+        assert!((t / (1e-6 * math::ln(2f64)) - 1.0).abs() < 1e-12);
+        let v = advance(|_| 1e-12, |v| (1.0 - v) / 1e6, 0.0, 1e-6 * math::ln(2f64)).unwrap();
         assert!((v - 0.5).abs() < 1e-10);
         assert!(ramp_time(|_| 1e-12, |v| (1.0 - v) / 1e6, 0.0, 1.2).is_err());
     }

@@ -73,3 +73,56 @@ fn the_checks_see_a_violation() {
     assert_eq!(hits, vec![(3, "use crate::engine::docs;")]);
     assert_eq!(layer_of(&src().join("timing").join("osc.rs")), Some("timing"));
 }
+
+/// Platform maths calls (`x.exp()`, `x.ln()`, `x.powf(y)`, …) found in a code line.
+fn platform_maths(line: &str) -> Vec<&'static str> {
+    const CALLS: &[&str] = &[
+        ".exp(", ".ln(", ".powf(", ".log10(", ".log2(", ".sin(", ".cos(", ".tan(", ".tanh(", ".atan(", ".atan2(",
+        ".exp_m1(", ".ln_1p(", ".cbrt(", ".hypot(", ".exp2(", ".sinh(", ".cosh(", ".asinh(",
+    ];
+    CALLS.iter().copied().filter(|c| line.contains(c)).collect()
+}
+
+#[test]
+fn reported_numbers_do_not_use_the_platform_maths_library() {
+    // f64's transcendental methods call the platform's libm, whose last bits differ between
+    // machines; every such call goes through num::math (the pure-Rust port) instead.
+    let mut files = Vec::new();
+    sources(&src(), &mut files);
+    let mut bad = Vec::new();
+    for f in files.iter().filter(|f| !f.ends_with("num/math.rs")) {
+        let text = std::fs::read_to_string(f).unwrap();
+        for (n, line) in code(&text) {
+            for call in platform_maths(line) {
+                bad.push(format!("{}:{n}: {call}…) — use num::math", f.display()));
+            }
+        }
+    }
+    assert!(bad.is_empty(), "platform maths calls:\n{}", bad.join("\n"));
+}
+
+#[test]
+fn the_maths_scan_sees_a_call() {
+    assert_eq!(platform_maths("let y = (a / b).ln() + x.exp();"), vec![".exp(", ".ln("]);
+    assert!(platform_maths("let y = math::ln(a / b) + x.sqrt();").is_empty());
+}
+
+#[test]
+fn the_guides_stand_alone() {
+    // A reader who clones the repository has only the repository: the guides and docs/ must
+    // not send them to files outside it.
+    let root = Path::new(env!("CARGO_MANIFEST_DIR"));
+    let mut docs = vec![root.join("README.md"), root.join("DEVELOPERS.md")];
+    for e in std::fs::read_dir(root.join("docs")).unwrap().flatten() {
+        docs.push(e.path());
+    }
+    let mut bad = Vec::new();
+    for d in docs.iter().filter(|d| d.extension().is_some_and(|x| x == "md")) {
+        for (n, line) in std::fs::read_to_string(d).unwrap().lines().enumerate() {
+            if line.contains("../shared") || line.contains("DESIGN.md") {
+                bad.push(format!("{}:{}: {line}", d.display(), n + 1));
+            }
+        }
+    }
+    assert!(bad.is_empty(), "links outside the repository:\n{}", bad.join("\n"));
+}

@@ -1,5 +1,6 @@
 //! Plots: a plain description (kind, data, labels, axes) checked before drawing, and its
 //! rendering to SVG with plotters.
+use crate::num::math;
 pub mod font;
 pub mod svg;
 pub mod ticks;
@@ -196,11 +197,11 @@ pub fn auto_bins(samples: &[f64]) -> usize {
     };
     let iqr = q(0.75) - q(0.25);
     let range = v[n - 1] - v[0];
-    let sturges = ((n as f64).log2().ceil() as usize + 1).clamp(1, 200);
+    let sturges = (math::log2(n as f64).ceil() as usize + 1).clamp(1, 200);
     if iqr <= 0.0 || range <= 0.0 {
         return sturges;
     }
-    let width = 2.0 * iqr * (n as f64).powf(-1.0 / 3.0);
+    let width = 2.0 * iqr * math::pow(n as f64, -1.0 / 3.0);
     ((range / width).ceil() as usize).clamp(1, 200)
 }
 

@@ -1,5 +1,6 @@
 //! Axis ranges and tick positions: "nice" steps of 1, 2, 2.5 or 5 × 10^k on linear axes,
 //! decades (with 2 and 5 between them on short ranges) on log axes, and SI-prefixed labels.
+use crate::num::math;
 use crate::report::format;
 
 /// One axis in drawing coordinates: log axes are laid out in log10 of the value.
@@ -17,12 +18,12 @@ pub struct Axis {
 /// Step of 1, 2, 2.5 or 5 × 10^k nearest to `raw` on a log scale (common practice for
 /// axis ticks).
 pub fn nice_step(raw: f64) -> f64 {
-    let e = raw.log10().floor();
-    let base = 10f64.powf(e);
+    let e = math::log10(raw).floor();
+    let base = math::pow(10f64, e);
     let f = raw / base;
     let m = [1.0, 2.0, 2.5, 5.0, 10.0]
         .into_iter()
-        .min_by(|a: &f64, b: &f64| (a / f).ln().abs().total_cmp(&(b / f).ln().abs()))
+        .min_by(|a: &f64, b: &f64| math::ln(a / f).abs().total_cmp(&math::ln(b / f).abs()))
         .unwrap_or(1.0);
     m * base
 }
@@ -66,27 +67,27 @@ pub fn linear(a: f64, b: f64, target: usize, from_zero: bool, exact: bool) -> Ax
 /// A log axis over positive data in [a, b]; ends snapped down/up to 1, 2 or 5 × 10^k.
 pub fn log(a: f64, b: f64) -> Axis {
     let (a, b) = (a.min(b), a.max(b));
-    let (la, lb) = (a.log10(), b.log10());
+    let (la, lb) = (math::log10(a), math::log10(b));
     let snap_down = |l: f64| {
         let d = l.floor();
-        let m = 10f64.powf(l - d);
+        let m = math::pow(10f64, l - d);
         d + if m >= 5.0 - 1e-9 {
-            5f64.log10()
+            math::log10(5f64)
         } else if m >= 2.0 - 1e-9 {
-            2f64.log10()
+            math::log10(2f64)
         } else {
             0.0
         }
     };
     let snap_up = |l: f64| {
         let d = l.floor();
-        let m = 10f64.powf(l - d);
+        let m = math::pow(10f64, l - d);
         if m <= 1.0 + 1e-9 {
             d
         } else if m <= 2.0 + 1e-9 {
-            d + 2f64.log10()
+            d + math::log10(2f64)
         } else if m <= 5.0 + 1e-9 {
-            d + 5f64.log10()
+            d + math::log10(5f64)
         } else {
             d + 1.0
         }
@@ -107,7 +108,7 @@ pub fn log(a: f64, b: f64) -> Axis {
             ticks.push(dd);
         }
         for m in 2..=9 {
-            let t = dd + (m as f64).log10();
+            let t = dd + math::log10(m as f64);
             if t >= lo - 1e-9 && t <= hi + 1e-9 {
                 if decades <= 2.0 && (m == 2 || m == 5) {
                     ticks.push(t);
@@ -124,11 +125,11 @@ pub fn log(a: f64, b: f64) -> Axis {
 impl Axis {
     /// A data value in drawing coordinates.
     pub fn to_coord(&self, v: f64) -> f64 {
-        if self.log { v.log10() } else { v }
+        if self.log { math::log10(v) } else { v }
     }
     /// The label of a tick at drawing coordinate `c`: `2.5µ`, `100k`, `-40`.
     pub fn label(&self, c: f64, unit: &str) -> String {
-        let v = if self.log { 10f64.powf(c) } else { c };
+        let v = if self.log { math::pow(10f64, c) } else { c };
         // Ticks near zero on a linear axis are zero (rounding of k × step).
         let span = (self.hi - self.lo).abs();
         let v = if !self.log && v.abs() < 1e-9 * span { 0.0 } else { v };

@@ -1,6 +1,7 @@
 //! Two-inverter RC astable: inverter 1 (input X, output A), inverter 2 (input A, output B),
 //! R from A to X, C from B to X. Each edge of B kicks X by ±V_DD through C; X then relaxes
 //! through R toward A until it crosses the inverter threshold.
+use crate::num::math;
 use std::rc::Rc;
 
 use std::sync::Arc;
@@ -101,7 +102,7 @@ impl Topology for RcInverter {
 /// 2·ln 3·RC ≈ 2.2·RC at V_T = V_DD/2 (textbook CMOS two-inverter astable, first-order RC
 /// response after each ±V_DD kick; the 2.2·RC figure is the usual application-note value).
 pub fn ideal_formula(r: f64, c: f64, vdd: f64, vt: f64) -> f64 {
-    r * c * (((vdd + vt) / vt).ln() + ((2.0 * vdd - vt) / (vdd - vt)).ln())
+    r * c * (math::ln((vdd + vt) / vt) + math::ln((2.0 * vdd - vt) / (vdd - vt)))
 }
 
 /// The inverter threshold: from the process devices, from vtn/vtp, as given, or vdd/2.

@@ -1,6 +1,7 @@
 //! What the two-threshold oscillators on one capacitor share (the window comparator oscillator,
 //! `window.rs`, and the Schmitt-trigger oscillator, `schmitt.rs`): thresholds, the node, the
 //! cycle and the transient circuit.
+use crate::num::math;
 use std::rc::Rc;
 
 use super::super::osc::PhaseTiming;
@@ -20,7 +21,7 @@ pub fn ideal_current(c: f64, i: f64, v_lo: f64, v_hi: f64) -> f64 {
 /// T = RC·[ln((V_DD − V_lo)/(V_DD − V_hi)) + ln(V_hi/V_lo)] (first-order RC response between two
 /// thresholds; textbook astable, e.g. Sedra/Smith, Microelectronic Circuits).
 pub fn ideal_rc(r: f64, c: f64, vdd: f64, v_lo: f64, v_hi: f64) -> f64 {
-    r * c * (((vdd - v_lo) / (vdd - v_hi)).ln() + (v_hi / v_lo).ln())
+    r * c * (math::ln((vdd - v_lo) / (vdd - v_hi)) + math::ln(v_hi / v_lo))
 }
 
 /// Thresholds (v_lo, v_hi) at the operating point: as given, or from the Schmitt trigger's
