@@ -8,7 +8,7 @@ use indicatif::{ProgressBar, ProgressDrawTarget, ProgressStyle};
 use rayon::prelude::*;
 
 /// Largest thread count accepted.
-pub const MAX_THREADS: usize = 1024;
+pub const MAX_THREADS: usize = 256;
 
 /// How many threads a run uses: 0 means all cores.
 pub fn threads_or_all(threads: usize) -> usize {
@@ -37,16 +37,12 @@ where
     } else {
         ProgressBar::hidden()
     };
-    let pool = rayon::ThreadPoolBuilder::new()
-        .num_threads(threads_or_all(threads).min(MAX_THREADS))
-        .build()
-        .map_err(|e| format!("cannot start the worker threads: {e}"))?;
     // Chunks of indices keep the bar's updates (an atomic add) rare.
     const CHUNK: u64 = 256;
     let chunks: Vec<Range<u64>> = (0..n.div_ceil(CHUNK))
         .map(|k| range.start + k * CHUNK..(range.start + (k + 1) * CHUNK).min(range.end))
         .collect();
-    let parts: Vec<Result<Vec<T>, String>> = pool.install(|| {
+    let work = || -> Vec<Result<Vec<T>, String>> {
         chunks
             .into_par_iter()
             .map(|c| {
@@ -56,7 +52,18 @@ where
                 out
             })
             .collect()
-    });
+    };
+    // Inside a worker of a batch run (scripts in parallel) the batch's pool is shared, so that
+    // N scripts with Monte Carlo runs do not start N × N threads.
+    let parts = if rayon::current_thread_index().is_some() {
+        work()
+    } else {
+        rayon::ThreadPoolBuilder::new()
+            .num_threads(threads_or_all(threads).min(MAX_THREADS))
+            .build()
+            .map_err(|e| format!("cannot start the worker threads: {e}"))?
+            .install(work)
+    };
     bar.finish_and_clear();
     let mut out = Vec::with_capacity(n as usize);
     for p in parts {

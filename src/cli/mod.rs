@@ -1,4 +1,5 @@
 //! Command-line verbs.
+pub mod discover;
 pub mod docs_cmd;
 pub mod repl;
 pub mod run;
@@ -23,7 +24,7 @@ pub struct Cli {
 
 #[derive(Subcommand, Debug)]
 pub enum Cmd {
-    /// Run scripts; each writes OUT/<script-name>/report.md
+    /// Run scripts and folders of scripts; each writes OUT/<sub/path>/<name>/report.md
     Run(run::RunArgs),
     /// Interactive session (reads a pipe too)
     Repl(repl::ReplArgs),

@@ -110,18 +110,24 @@ fn metric_line(m: &Metric) -> String {
     }
 }
 
-fn verdict(pass: bool) -> &'static str {
+/// The result cell of a metric with a spec.
+pub fn verdict(pass: bool) -> &'static str {
     if pass { "pass" } else { "**FAIL**" }
 }
 
 fn metrics_table(ms: &[&Metric]) -> String {
     let mut s = String::from("| metric | value | spec | result |\n| --- | ---: | --- | --- |\n");
     for m in ms {
-        let spec = if m.spec.is_open() { "—".to_string() } else { m.spec.text(&m.unit) };
-        let res = m.pass().map(verdict).unwrap_or("—");
-        s.push_str(&format!("| `{}` | {} | {} | {} |\n", m.name, format::value(m.value, &m.unit, 4), spec, res));
+        s.push_str(&format!("| `{}` | {} |\n", m.name, metric_cells(m)));
     }
     s
+}
+
+/// The value, spec and result cells of a metric's table row: `3.30 µs | ≤ 3.40 µs | pass`.
+pub fn metric_cells(m: &Metric) -> String {
+    let spec = if m.spec.is_open() { "—".to_string() } else { m.spec.text(&m.unit) };
+    let res = m.pass().map(verdict).unwrap_or("—");
+    format!("{} | {spec} | {res}", format::value(m.value, &m.unit, 4))
 }
 
 /// Backslash-escape the characters that would turn plain text into Markdown markup.

@@ -1,6 +1,9 @@
 //! Report model: sections of prose and outputs, tables, plots, metrics, provenance, and the
 //! files they are written to. Plain Rust; the engine turns script values into these types.
 pub mod format;
+pub mod git;
+pub mod history;
+pub mod index;
 pub mod markdown;
 pub mod metric;
 pub mod model;

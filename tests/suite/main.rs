@@ -33,3 +33,4 @@ mod timing_references;
 mod timing_script;
 mod timing_transient;
 mod timing_variant;
+mod weekly_run;
