@@ -3,6 +3,7 @@
 use rhai::{Array, Dynamic, Engine, Map};
 
 use super::api;
+use super::args::Opts;
 use super::value::{R, lift, to_f64};
 use crate::analysis::jitter::{Jitter, accumulated, jitter};
 use crate::analysis::phase_noise::phase_noise;
@@ -13,34 +14,6 @@ use crate::timing::Osc;
 
 fn f(x: f64) -> Dynamic {
     Dynamic::from_float(x)
-}
-
-fn opt(m: &Map, what: &str, key: &str, unit: &str, default: f64) -> R<f64> {
-    match m.get(key) {
-        None => Ok(default),
-        Some(v) => {
-            to_f64(v).map_err(|_| format!("{what}: '{key}' must be a number ({unit}), found {}", v.type_name()).into())
-        }
-    }
-}
-
-fn count(m: &Map, what: &str, default: i64) -> R<usize> {
-    match m.get("n") {
-        None => Ok(default as usize),
-        Some(v) => match v.as_int() {
-            Ok(n) if (2..=10_000).contains(&n) => Ok(n as usize),
-            _ => Err(format!("{what}: 'n' must be an integer in 2..=10000, got {v}").into()),
-        },
-    }
-}
-
-fn only(m: &Map, what: &str, keys: &[&str]) -> R<()> {
-    for k in m.keys() {
-        if !keys.contains(&k.as_str()) {
-            return Err(format!("{what}: unknown key '{k}'; the keys are {}", keys.join(", ")).into());
-        }
-    }
-    Ok(())
 }
 
 fn sensitivity_rows(o: &Osc) -> R<Array> {
@@ -142,6 +115,9 @@ fn phase_noise_map(o: &Osc, offsets: &Series, power: Option<f64>) -> R<Map> {
     Ok(m)
 }
 
+/// Most points a tempco or supply sweep takes.
+const MAX_POINTS: i64 = 10_000;
+
 pub fn register(engine: &mut Engine) {
     api::fun(
         engine,
@@ -154,10 +130,11 @@ pub fn register(engine: &mut Engine) {
         "o.tempco(#{t_min: °C, t_max: °C, n: int}) -> map",
         "period versus temperature: #{temp (Series, °C), period (Series, s), ppm_per_c (box method: (T_max − T_min)/(T(27 °C)·(t_max − t_min)), ppm/°C), slope_ppm_per_c (signed (1/T)·dT/dtemp at 27 °C), period_27 (s)}; defaults −40 … 125 °C, 34 points",
         |o: &mut Osc, m: Map| -> R<Map> {
-            only(&m, "tempco", &["t_min", "t_max", "n"])?;
-            let lo = opt(&m, "tempco", "t_min", "°C", -40.0)?;
-            let hi = opt(&m, "tempco", "t_max", "°C", 125.0)?;
-            let n = count(&m, "tempco", 34)?;
+            let mut a = Opts::new(&m, "tempco");
+            let lo = a.or_in("t_min", "°C", -40.0)?;
+            let hi = a.or_in("t_max", "°C", 125.0)?;
+            let n = a.int_in("n", 2, MAX_POINTS, 34)? as usize;
+            a.finish()?;
             Ok(coefficient_map(lift(tempco(o, lo, hi, n))?, "temp", 1e6, "ppm_per_c"))
         },
     );
@@ -166,11 +143,12 @@ pub fn register(engine: &mut Engine) {
         "o.supply_sensitivity(#{v_min: V, v_max: V, n: int}) -> map",
         "period versus supply: #{vdd (Series, V), period (Series, s), pct_per_v (box method about the period at the oscillator's vdd, %/V), slope_pct_per_v (signed slope at its vdd, %/V)}; defaults vdd ± 0.2 V, 21 points",
         |o: &mut Osc, m: Map| -> R<Map> {
-            only(&m, "supply_sensitivity", &["v_min", "v_max", "n"])?;
             let v = o.env.vdd;
-            let lo = opt(&m, "supply_sensitivity", "v_min", "V", v - 0.2)?;
-            let hi = opt(&m, "supply_sensitivity", "v_max", "V", v + 0.2)?;
-            let n = count(&m, "supply_sensitivity", 21)?;
+            let mut a = Opts::new(&m, "supply_sensitivity");
+            let lo = a.or_in("v_min", "V", v - 0.2)?;
+            let hi = a.or_in("v_max", "V", v + 0.2)?;
+            let n = a.int_in("n", 2, MAX_POINTS, 21)? as usize;
+            a.finish()?;
             Ok(coefficient_map(lift(supply_sensitivity(o, lo, hi, n))?, "vdd", 100.0, "pct_per_v"))
         },
     );
@@ -204,14 +182,16 @@ pub fn register(engine: &mut Engine) {
         "o.jitter(#{cycles: Series|array, f_min: Hz}) -> map",
         "as o.jitter(), plus accumulated: σ of the N-th edge after a given one for each N in cycles (white sources and, with i_flicker_fc, the current's flicker noise above f_min, default 1 Hz), s",
         |o: &mut Osc, m: Map| -> R<Map> {
-            only(&m, "jitter", &["cycles", "f_min"])?;
+            let mut a = Opts::new(&m, "jitter");
+            let f_min = a.or_in("f_min", "Hz", 1.0)?;
+            let cycles = a.get("cycles");
+            a.finish()?;
             let j = lift(jitter(o))?;
             let mut out = jitter_map(&j);
-            let f_min = opt(&m, "jitter", "f_min", "Hz", 1.0)?;
             if !(f_min > 0.0 && f_min.is_finite()) {
                 return Err(format!("jitter: 'f_min' must be a positive frequency (Hz), got {f_min}").into());
             }
-            if let Some(c) = m.get("cycles") {
+            if let Some(c) = cycles {
                 let ns = cycles_list(c)?;
                 let acc: Series = ns.iter().map(|n| accumulated(&j, *n, f_min)).collect();
                 out.insert("cycles".into(), Dynamic::from(ns.iter().map(|n| *n as f64).collect::<Series>()));
@@ -231,8 +211,9 @@ pub fn register(engine: &mut Engine) {
         "o.phase_noise(offsets: Series, #{power: W}) -> map",
         "as o.phase_noise(offsets), with the figure of merit and the bound referred to this power",
         |o: &mut Osc, offsets: Series, m: Map| -> R<Map> {
-            only(&m, "phase_noise", &["power"])?;
-            let p = opt(&m, "phase_noise", "power", "W", f64::NAN)?;
+            let mut a = Opts::new(&m, "phase_noise");
+            let p = a.or_in("power", "W", f64::NAN)?;
+            a.finish()?;
             phase_noise_map(o, &offsets, Some(p))
         },
     );

@@ -2,6 +2,7 @@
 //! access, and registration of every native module. The only layer that knows about Rhai.
 pub mod analysis_api;
 pub mod api;
+pub mod args;
 pub mod core_api;
 pub mod docs;
 pub mod errors;

@@ -1,5 +1,5 @@
 //! Conversions between script values and Rust numbers, with errors that name what was found.
-use rhai::{Dynamic, EvalAltResult, Map};
+use rhai::{Dynamic, EvalAltResult};
 
 /// The result type of a native script function; the engine adds file:line:col to the error.
 pub type R<T> = Result<T, Box<EvalAltResult>>;
@@ -22,13 +22,5 @@ pub fn to_f64(v: &Dynamic) -> Result<f64, Box<EvalAltResult>> {
         Ok(i as f64)
     } else {
         Err(format!("expected a number, found {}", v.type_name()).into())
-    }
-}
-
-/// A numeric entry of an option map, with a default when absent; errors name the key.
-pub fn map_f64(m: &Map, key: &str, default: f64) -> Result<f64, Box<EvalAltResult>> {
-    match m.get(key) {
-        None => Ok(default),
-        Some(v) => to_f64(v).map_err(|_| format!("key '{key}' must be a number, found {}", v.type_name()).into()),
     }
 }

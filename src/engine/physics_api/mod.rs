@@ -13,25 +13,16 @@ mod passives;
 mod process;
 mod switch;
 
+use super::args::{Opts, num};
 use super::value::{R, err, lift};
-use rhai::{Array, Dynamic, Engine, Map};
+use rhai::{Array, Dynamic, Engine};
 
 use super::session::Shared;
-use super::value::to_f64;
 use crate::num::Series;
 use crate::physics::comparator::PairDesign;
 use crate::physics::constants::check_temp;
 use crate::physics::mosfet::MosType;
 use crate::physics::process::Process;
-
-/// A finite number argument, named in the error.
-fn num(v: &Dynamic, what: &str) -> R<f64> {
-    let x = to_f64(v).map_err(|_| format!("{what} must be a number, found {}", v.type_name()))?;
-    if !x.is_finite() {
-        return err(format!("{what} must be finite, got {x}"));
-    }
-    Ok(x)
-}
 
 fn temp(v: &Dynamic, f: &str) -> R<f64> {
     lift(check_temp(num(v, &format!("{f}: temp"))?).map_err(|e| format!("{f}: {e}")))
@@ -58,57 +49,9 @@ fn each(x: &Dynamic, what: &str, f: &str, g: impl Fn(f64) -> R<f64>) -> R<Dynami
     }
 }
 
-/// Strict reading of an option map: unknown keys are errors naming the function.
-struct Opts<'a> {
-    m: &'a Map,
-    f: &'static str,
-    used: Vec<&'static str>,
-}
-
-impl<'a> Opts<'a> {
-    fn new(m: &'a Map, f: &'static str) -> Self {
-        Opts { m, f, used: Vec::new() }
-    }
-    fn get(&mut self, key: &'static str) -> Option<&'a Dynamic> {
-        self.used.push(key);
-        self.m.get(key)
-    }
-    fn req(&mut self, key: &'static str) -> R<f64> {
-        let f = self.f;
-        match self.get(key) {
-            Some(v) => num(v, &format!("{f}: key '{key}'")),
-            None => err(format!("{f}: key '{key}' is required")),
-        }
-    }
-    fn or(&mut self, key: &'static str, default: f64) -> R<f64> {
-        let f = self.f;
-        match self.get(key) {
-            Some(v) => num(v, &format!("{f}: key '{key}'")),
-            None => Ok(default),
-        }
-    }
-    fn text(&mut self, key: &'static str, default: &str) -> R<String> {
-        let f = self.f;
-        match self.get(key) {
-            None => Ok(default.to_string()),
-            Some(v) => {
-                v.clone().into_string().map_err(|t| format!("{f}: key '{key}' must be a string, found {t}").into())
-            }
-        }
-    }
-    fn finish(&self) -> R<()> {
-        for k in self.m.keys() {
-            if !self.used.contains(&k.as_str()) {
-                return err(format!("{}: unknown key '{k}'; known keys: {}", self.f, self.used.join(", ")));
-            }
-        }
-        Ok(())
-    }
-}
-
 /// A comparator design from an option map; `sized` false when the caller sets W and L itself.
 fn pair_design(o: &mut Opts, p: &Process, sized: bool) -> R<PairDesign> {
-    let kind = lift(MosType::parse(&o.text("type", "n")?).map_err(|e| format!("{}: key 'type': {e}", o.f)))?;
+    let kind = lift(MosType::parse(&o.text("type", "n")?).map_err(|e| format!("{}: key 'type': {e}", o.name())))?;
     let (w, l) = if sized { (o.req("w")?, o.req("l")?) } else { (1e-6, 1e-6) };
     Ok(PairDesign {
         kind,
