@@ -31,6 +31,7 @@ pub const RECEIVERS: &[(&str, &str)] = &[
     ("mask", "Series"),
     ("mc", "MonteCarlo"),
     ("t", "Trim"),
+    ("r", "Reference"),
 ];
 
 /// Script types a signature may name; anything else in a type position is a unit (a number).

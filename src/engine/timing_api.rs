@@ -11,22 +11,36 @@ use crate::num::si::eng;
 use crate::physics::mirror::MirrorKind;
 use crate::physics::process::Process;
 use crate::timing::budget::budget;
-use crate::timing::from_process::{Choices, osc_from};
+use crate::timing::from_process::{Choices, osc_from_with};
 use crate::timing::keys::{Dflt, Kind, Mode, def};
+use crate::timing::reference::Reference;
 use crate::timing::transient::{
     MAX_CYCLES, MAX_POINTS_PER_PHASE, Options, RTOL, RTOL_RANGE, SETTLE_RTOL, Transient, simulate,
 };
 use crate::timing::{Cycle, Mask, Osc};
 
-/// Numbers of an option map, each named in errors.
-fn pairs(what: &str, m: &Map) -> R<Vec<(String, f64)>> {
-    m.iter()
-        .map(|(k, v)| {
-            to_f64(v)
-                .map(|x| (k.to_string(), x))
-                .map_err(|_| format!("{what}: key '{k}' must be a number, found {}", v.type_name()).into())
-        })
-        .collect()
+/// Keys given as numbers, and keys given as references.
+type Values = (Vec<(String, f64)>, Vec<(String, Reference)>);
+
+/// Numbers and references of an option map, each named in errors.
+fn values(what: &str, m: &Map) -> R<Values> {
+    let (mut nums, mut refs) = (Vec::new(), Vec::new());
+    for (k, v) in m {
+        if let Some(r) = v.clone().try_cast::<Reference>() {
+            refs.push((k.to_string(), r));
+        } else {
+            let x = to_f64(v).map_err(|_| {
+                let or = match k.as_str() {
+                    "i" => " or a current reference such as ptat(750n)",
+                    "v_lo" | "v_hi" => " or a threshold reference such as ladder(0.75)",
+                    _ => "",
+                };
+                format!("{what}: key '{k}' must be a number{or}, found {}", v.type_name())
+            })?;
+            nums.push((k.to_string(), x));
+        }
+    }
+    Ok((nums, refs))
 }
 
 fn kind(name: &str) -> R<Kind> {
@@ -249,6 +263,9 @@ fn describe(o: &Osc) -> String {
         .params
         .given()
         .map(|(k, v)| {
+            if let Some(r) = o.params.reference(k) {
+                return format!("{k} = {}", r.describe());
+            }
             let unit = def(k).map(|d| d.unit).unwrap_or("");
             match unit {
                 "1" | "1/K" | "1/V" | "1/V²" | "V/K" | "°C" => format!("{k} = {v}"),
@@ -297,7 +314,8 @@ fn from_process(pr: &Process, k: &str, mut m: Map) -> R<Osc> {
     let mirror =
         lift(MirrorKind::parse(&name("mirror", "cascode")?).map_err(|e| format!("{what}: key 'mirror': {e}")))?;
     let res_type = name("res_type", "rpoly")?;
-    lift(osc_from(pr, kind, Choices { cap_type, mirror, res_type }, &pairs(&what, &m)?))
+    let (nums, refs) = values(&what, &m)?;
+    lift(osc_from_with(pr, kind, Choices { cap_type, mirror, res_type }, &nums, &refs))
 }
 
 pub fn register(engine: &mut Engine, session: &Shared) {
@@ -311,7 +329,8 @@ pub fn register(engine: &mut Engine, session: &Shared) {
         "an oscillator from explicit numbers; kinds \"rc-inverter\", \"schmitt\", \"window\", \"reset\", \"pingpong\"; keys c (F), i (A), r (Ω), v_lo, v_hi, vdd (V), temp (°C) and one key per parasitic (default ideal); osc_keys(kind) lists them",
         |k: &str, m: Map| -> R<Osc> {
             let kind = kind(k)?;
-            lift(Osc::new(kind, &pairs(&format!("osc(\"{k}\")"), &m)?))
+            let (nums, refs) = values(&format!("osc(\"{k}\")"), &m)?;
+            lift(Osc::new_with(kind, &nums, &refs))
         },
     );
     api::fun(
@@ -408,7 +427,10 @@ pub fn register(engine: &mut Engine, session: &Shared) {
         engine,
         "o.modified(params: map) -> Oscillator",
         "a copy of the oscillator with some keys changed (checked like osc); o itself is unchanged",
-        |o: &mut Osc, m: Map| -> R<Osc> { lift(o.with(&pairs("modified", &m)?)) },
+        |o: &mut Osc, m: Map| -> R<Osc> {
+            let (nums, refs) = values("modified", &m)?;
+            lift(o.with_all(&nums, &refs))
+        },
     );
     api::fun(
         engine,

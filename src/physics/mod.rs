@@ -9,5 +9,6 @@ pub mod mirror;
 pub mod mismatch;
 pub mod mosfet;
 pub mod process;
+pub mod reference;
 pub mod resistor;
 pub mod switch;

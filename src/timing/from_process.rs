@@ -8,6 +8,7 @@ use super::keys::{Kind, Mode, Params};
 use super::osc::{Origin, Osc};
 use super::parasitic::Parasitic;
 use super::parts::{ComparatorPart, MirrorSource, Parts, SwitchSet};
+use super::reference::Reference;
 use crate::physics::capacitor::Capacitor;
 use crate::physics::comparator::{Comparator, PairDesign};
 use crate::physics::mirror::{Mirror, MirrorKind};
@@ -36,6 +37,17 @@ pub struct ProcessOrigin {
 /// An oscillator of `kind` built from `process`; `pairs` as for `osc`, with device sizes.
 /// The supply and temperature default to those of the process object.
 pub fn osc_from(process: &Process, kind: Kind, choices: Choices, pairs: &[(String, f64)]) -> Result<Osc, String> {
+    osc_from_with(process, kind, choices, pairs, &[])
+}
+
+/// As `osc_from`, some keys given as references.
+pub fn osc_from_with(
+    process: &Process,
+    kind: Kind,
+    choices: Choices,
+    pairs: &[(String, f64)],
+    refs: &[(String, Reference)],
+) -> Result<Osc, String> {
     process.capacitor(&choices.cap_type)?;
     kind.topology().check_choices(process, &choices)?;
     let mut pairs = pairs.to_vec();
@@ -45,7 +57,7 @@ pub fn osc_from(process: &Process, kind: Kind, choices: Choices, pairs: &[(Strin
     if !pairs.iter().any(|(k, _)| k == "temp") {
         pairs.push(("temp".into(), process.temp));
     }
-    Osc::from_origin(kind, &pairs, Arc::new(ProcessOrigin { process: process.clone(), choices }))
+    Osc::from_origin_with(kind, &pairs, refs, Arc::new(ProcessOrigin { process: process.clone(), choices }))
 }
 
 impl ProcessOrigin {

@@ -4,6 +4,7 @@ use crate::num::si::eng_exact;
 use std::collections::BTreeMap;
 
 use super::parasitic::Parasitic;
+use super::reference::{Quantity, Reference};
 use super::topology::{ALL, Topology};
 
 /// A topology, by its script-level name. What it does is its `Topology` in the list
@@ -82,7 +83,10 @@ impl Kind {
         let mut v: Vec<Parasitic> = super::parasitic::ALL
             .iter()
             .copied()
-            .filter(|p| self.keys().iter().any(|k| def(k).is_some_and(|d| d.group == Some(*p))))
+            .filter(|p| {
+                self.keys().iter().any(|k| def(k).is_some_and(|d| d.group == Some(*p)))
+                    || p.reference_keys().iter().any(|k| self.keys().contains(k))
+            })
             .collect();
         v.sort();
         v
@@ -289,6 +293,8 @@ pub struct Params {
     pub kind: Kind,
     pub mode: Mode,
     given: BTreeMap<&'static str, f64>,
+    /// Keys whose value is a reference (its nominal value is in `given`).
+    refs: BTreeMap<&'static str, Reference>,
 }
 
 impl Params {
@@ -300,6 +306,18 @@ impl Params {
 
     /// As `new`, for the keys of `mode`.
     pub fn new_in(kind: Kind, mode: Mode, pairs: &[(String, f64)]) -> Result<Params, String> {
+        Params::with_references(kind, mode, pairs, &[])
+    }
+
+    /// As `new_in`, with some keys given as references (`i: ptat(750n)`, `v_hi: ladder(0.75)`):
+    /// a reference not yet pinned to a supply is pinned to this oscillator's `vdd`, and its
+    /// nominal value is the key's number, checked like any other.
+    pub fn with_references(
+        kind: Kind,
+        mode: Mode,
+        pairs: &[(String, f64)],
+        refs: &[(String, Reference)],
+    ) -> Result<Params, String> {
         let keys = kind.keys_for(mode);
         if keys.is_empty() {
             return Err(format!(
@@ -308,28 +326,98 @@ impl Params {
                 kind.name()
             ));
         }
-        let mut given = BTreeMap::new();
-        for (k, v) in pairs {
-            let Some(name) = keys.iter().copied().find(|n| n == k) else {
-                return Err(format!("{}: unknown key '{k}'; valid keys are: {}", kind.caller(mode), keys.join(", ")));
-            };
+        let find = |k: &str| {
+            keys.iter()
+                .copied()
+                .find(|n| *n == k)
+                .ok_or_else(|| format!("{}: unknown key '{k}'; valid keys are: {}", kind.caller(mode), keys.join(", ")))
+        };
+        let vdd = pairs.iter().find(|(k, _)| k == "vdd").map_or_else(
+            || match def("vdd").map(|d| d.default) {
+                Some(Dflt::Value(v)) => v,
+                _ => f64::NAN,
+            },
+            |(_, v)| *v,
+        );
+        let mut ref_map = BTreeMap::new();
+        let mut all: Vec<(&'static str, f64)> = Vec::with_capacity(pairs.len() + refs.len());
+        for (k, r) in refs {
+            let name = find(k)?;
             let d = def(name).ok_or_else(|| format!("internal: key '{name}' has no definition"))?;
-            check_range(d, *v).map_err(|e| format!("{}: {e}", kind.caller(mode)))?;
-            given.insert(name, *v);
+            let fits = match r.quantity {
+                Quantity::Current => name == "i",
+                Quantity::Voltage => matches!(name, "v_lo" | "v_hi"),
+            };
+            if !fits {
+                return Err(format!(
+                    "{}: key '{k}' ({}, {}) cannot take the reference {}: a current reference is a value of 'i', a threshold reference one of 'v_lo' or 'v_hi'",
+                    kind.caller(mode),
+                    d.what,
+                    d.unit,
+                    r.describe()
+                ));
+            }
+            let r = r.pinned(vdd);
+            all.push((name, r.nominal()));
+            ref_map.insert(name, r);
         }
-        let p = Params { kind, mode, given };
+        for (k, v) in pairs {
+            let name = find(k)?;
+            ref_map.remove(name);
+            all.retain(|(n, _)| *n != name);
+            all.push((name, *v));
+        }
+        let mut given = BTreeMap::new();
+        for (name, v) in all {
+            let d = def(name).ok_or_else(|| format!("internal: key '{name}' has no definition"))?;
+            check_range(d, v).map_err(|e| match ref_map.get(name) {
+                Some(r) => format!("{}: {e} (the nominal value of {})", kind.caller(mode), r.describe()),
+                None => format!("{}: {e}", kind.caller(mode)),
+            })?;
+            given.insert(name, v);
+        }
+        let p = Params { kind, mode, given, refs: ref_map };
         p.check_required().map_err(|e| format!("{}: {e}", kind.caller(mode)))?;
         Ok(p)
     }
 
     /// The same parameters with some keys replaced (checked the same way).
+    /// A key that holds a reference keeps it, scaled to the new nominal value, so that a sweep,
+    /// a sensitivity or a Monte Carlo draw of `i` moves the reference's level, not its law.
     pub fn with(&self, pairs: &[(String, f64)]) -> Result<Params, String> {
-        let mut all: Vec<(String, f64)> = self.given.iter().map(|(k, v)| (k.to_string(), *v)).collect();
+        self.with_all(pairs, &[])
+    }
+
+    /// As `with`, some keys given new references (which replace what they held).
+    pub fn with_all(&self, pairs: &[(String, f64)], new_refs: &[(String, Reference)]) -> Result<Params, String> {
+        let mut all: Vec<(String, f64)> =
+            self.given.iter().filter(|(k, _)| !self.refs.contains_key(*k)).map(|(k, v)| (k.to_string(), *v)).collect();
+        let mut refs: Vec<(String, Reference)> = self.refs.iter().map(|(k, r)| (k.to_string(), r.clone())).collect();
         for (k, v) in pairs {
+            if let Some((_, r)) = refs.iter_mut().find(|(a, _)| a == k) {
+                let nom = r.nominal();
+                *r = if nom != 0.0 { r.scaled(*v / nom) } else { r.clone() };
+                continue;
+            }
             all.retain(|(a, _)| a != k);
             all.push((k.clone(), *v));
         }
-        Params::new_in(self.kind, self.mode, &all)
+        for (k, r) in new_refs {
+            all.retain(|(a, _)| a != k);
+            refs.retain(|(a, _)| a != k);
+            refs.push((k.clone(), r.clone()));
+        }
+        Params::with_references(self.kind, self.mode, &all, &refs)
+    }
+
+    /// The reference a key holds, if it holds one.
+    pub fn reference(&self, key: &str) -> Option<&Reference> {
+        self.refs.get(key)
+    }
+
+    /// Keys that hold references, with them.
+    pub fn references(&self) -> impl Iterator<Item = (&'static str, &Reference)> + '_ {
+        self.refs.iter().map(|(k, r)| (*k, r))
     }
 
     fn check_required(&self) -> Result<(), String> {
@@ -382,6 +470,9 @@ impl Params {
 
     /// Whether any key of parasitic `p` was given a value other than its ideal default.
     pub fn sets(&self, p: Parasitic) -> bool {
+        if p.reference_keys().iter().any(|k| self.refs.contains_key(k)) {
+            return true;
+        }
         self.given.iter().any(|(k, v)| {
             def(k).is_some_and(|d| {
                 d.group == Some(p)

@@ -16,6 +16,7 @@ pub mod osc;
 pub mod parasitic;
 pub mod parts;
 pub mod ramp;
+pub mod reference;
 pub mod thresholds;
 pub mod topology;
 pub mod transient;

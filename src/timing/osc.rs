@@ -5,6 +5,7 @@ use super::env::Env;
 use super::keys::{Kind, Mode, Params};
 use super::parasitic::{Mask, Parasitic};
 use super::parts::Parts;
+use super::reference::Reference;
 use crate::physics::process::Process;
 
 /// Where the parts come from: explicit numbers, or the devices of a process.
@@ -22,6 +23,69 @@ pub trait Origin: Send + Sync {
     fn inherent(&self, p: &Params) -> Vec<Parasitic>;
     /// The same origin on another process (the same name choices), if it has a process.
     fn on_process(&self, p: &Process) -> Result<Arc<dyn Origin>, String>;
+    /// The references at this operating point (default: the keys given as references).
+    fn references(&self, p: &Params, env: &Env) -> Result<RefPoint, String> {
+        RefPoint::of_keys(p, env)
+    }
+}
+
+/// The references of an oscillator at its operating point: the factor on the charging and
+/// discharging currents (the current reference's value over its nominal) and each threshold's
+/// shift from its nominal value, V. All neutral for keys given as plain numbers.
+#[derive(Clone, Debug, PartialEq)]
+pub struct RefPoint {
+    pub i_factor: f64,
+    pub shift_lo: f64,
+    pub shift_hi: f64,
+    /// What each reference is, for descriptions: (key, description).
+    pub names: Vec<(&'static str, String)>,
+}
+
+impl RefPoint {
+    /// Every reference ideal.
+    pub fn ideal() -> RefPoint {
+        RefPoint { i_factor: 1.0, shift_lo: 0.0, shift_hi: 0.0, names: Vec::new() }
+    }
+
+    /// From the keys of `p` that hold references, at `env`.
+    pub fn of_keys(p: &Params, env: &Env) -> Result<RefPoint, String> {
+        let mut r = RefPoint::ideal();
+        for (k, rf) in p.references() {
+            r.apply(k, rf, env)?;
+        }
+        Ok(r)
+    }
+
+    /// Take key `k`'s reference `rf` into account at `env`.
+    pub fn apply(&mut self, k: &'static str, rf: &Reference, env: &Env) -> Result<(), String> {
+        let (nom, real) = (rf.nominal(), rf.at(env.temp_c, env.vdd));
+        if !real.is_finite() {
+            return Err(format!(
+                "the reference of '{k}', {}, gives no value at {} °C, {} V",
+                rf.describe(),
+                env.temp_c,
+                env.vdd
+            ));
+        }
+        match k {
+            "i" => {
+                if real <= 0.0 {
+                    return Err(format!(
+                        "the current reference {} gives {} at {} °C: it has stopped (no positive current)",
+                        rf.describe(),
+                        crate::num::si::eng_exact(real, "A").trim_end(),
+                        env.temp_c
+                    ));
+                }
+                self.i_factor = real / nom;
+            }
+            "v_lo" => self.shift_lo = real - nom,
+            "v_hi" => self.shift_hi = real - nom,
+            _ => return Err(format!("internal: key '{k}' cannot hold a reference")),
+        }
+        self.names.push((k, rf.describe()));
+        Ok(())
+    }
 }
 
 struct Explicit;
@@ -61,6 +125,8 @@ pub struct Osc {
     /// Parasitics present (given a non-ideal value, or inherent), fixed at assembly: the masked
     /// accessors of `View` consult it on every evaluation of the node equations.
     present: Mask,
+    /// The references at the operating point.
+    pub refs: RefPoint,
 }
 
 impl std::fmt::Debug for Osc {
@@ -117,6 +183,23 @@ impl Osc {
         Osc::from_origin(kind, pairs, Arc::new(Explicit))
     }
 
+    /// An oscillator from explicit numbers, some keys given as references.
+    pub fn new_with(kind: Kind, pairs: &[(String, f64)], refs: &[(String, Reference)]) -> Result<Osc, String> {
+        Osc::from_origin_with(kind, pairs, refs, Arc::new(Explicit))
+    }
+
+    /// As `from_origin`, some keys given as references.
+    pub fn from_origin_with(
+        kind: Kind,
+        pairs: &[(String, f64)],
+        refs: &[(String, Reference)],
+        origin: Arc<dyn Origin>,
+    ) -> Result<Osc, String> {
+        let params = Params::with_references(kind, origin.mode(), pairs, refs)?;
+        let corner = origin.corners().first().cloned().unwrap_or_else(|| "typical".into());
+        Osc::assemble(params, corner, origin)
+    }
+
     /// An oscillator whose parts come from `origin` (e.g. physics models of a process).
     pub fn from_origin(kind: Kind, pairs: &[(String, f64)], origin: Arc<dyn Origin>) -> Result<Osc, String> {
         let params = Params::new_in(kind, origin.mode(), pairs)?;
@@ -128,11 +211,12 @@ impl Osc {
         let parts = origin.build(&params, &corner)?;
         let env = Env { temp_c: params.get("temp"), vdd: params.get("vdd"), corner };
         let inherent = origin.inherent(&params);
+        let refs = origin.references(&params, &env).map_err(|e| format!("{}: {e}", params.kind.caller(params.mode)))?;
         let present = super::parasitic::ALL
             .iter()
             .filter(|p| params.sets(**p) || inherent.contains(p))
             .fold(Mask::NONE, |m, p| m.with(*p));
-        let o = Osc { params, env, parts, origin, inherent, present };
+        let o = Osc { params, env, parts, origin, inherent, present, refs };
         o.check().map_err(|e| format!("{}: {e}", o.caller()))?;
         Ok(o)
     }
@@ -154,6 +238,11 @@ impl Osc {
     /// The same oscillator with some keys changed.
     pub fn with(&self, pairs: &[(String, f64)]) -> Result<Osc, String> {
         Osc::assemble(self.params.with(pairs)?, self.env.corner.clone(), self.origin.clone())
+    }
+
+    /// The same oscillator with some keys changed, some given new references.
+    pub fn with_all(&self, pairs: &[(String, f64)], refs: &[(String, Reference)]) -> Result<Osc, String> {
+        Osc::assemble(self.params.with_all(pairs, refs)?, self.env.corner.clone(), self.origin.clone())
     }
 
     /// The same oscillator (kind, keys, name choices, corner) rebuilt on another process, e.g.
@@ -247,7 +336,7 @@ impl Osc {
         let p = &self.params;
         let vdd = self.env.vdd;
         if p.has("v_lo") || p.has("v_hi") {
-            let (lo, hi) = (p.get("v_lo"), p.get("v_hi"));
+            let (lo, hi) = (p.get("v_lo") + self.refs.shift_lo, p.get("v_hi") + self.refs.shift_hi);
             let lo = if lo.is_nan() { 0.0 } else { lo };
             if lo >= hi {
                 return Err(format!("'v_lo' = {lo} V must be below 'v_hi' = {hi} V"));
@@ -289,17 +378,37 @@ impl View<'_> {
     pub fn cin_lo(&self, v: f64) -> f64 {
         if self.on(Parasitic::InputCap) { self.o.parts.cmp_lo.input_cap(v, self.env) } else { 0.0 }
     }
+    /// The current reference's value over its nominal (1 with the reference ideal).
+    pub fn i_ref(&self) -> f64 {
+        if self.on(Parasitic::CurrentRef) { self.o.refs.i_factor } else { 1.0 }
+    }
+    /// A threshold's shift from its nominal value by its reference, V (0 with it ideal).
+    pub fn ref_shift(&self, key: &str) -> f64 {
+        if !self.on(Parasitic::ThresholdRef) {
+            return 0.0;
+        }
+        match key {
+            "v_lo" => self.o.refs.shift_lo,
+            "v_hi" => self.o.refs.shift_hi,
+            _ => 0.0,
+        }
+    }
     /// Charging current magnitude, A.
     pub fn i_ch(&self, v: f64) -> f64 {
         let s = &self.o.parts.charge;
-        if self.on(Parasitic::MirrorRout) { s.at(v, self.env) } else { s.nominal(self.env) }
+        self.i_ref() * if self.on(Parasitic::MirrorRout) { s.at(v, self.env) } else { s.nominal(self.env) }
     }
     /// Discharging current magnitude, A; with the mismatch off it is scaled to the charging
     /// source's nominal current.
     pub fn i_dis(&self, v: f64) -> f64 {
         let s = &self.o.parts.discharge;
         let i = if self.on(Parasitic::MirrorRout) { s.at(v, self.env) } else { s.nominal(self.env) };
-        if self.on(Parasitic::Mismatch) { i } else { i * self.o.parts.charge.nominal(self.env) / s.nominal(self.env) }
+        self.i_ref()
+            * if self.on(Parasitic::Mismatch) {
+                i
+            } else {
+                i * self.o.parts.charge.nominal(self.env) / s.nominal(self.env)
+            }
     }
     pub fn vos_hi(&self) -> f64 {
         if self.on(Parasitic::Offset) { self.o.parts.cmp_hi.offset(self.env) } else { 0.0 }

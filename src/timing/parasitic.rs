@@ -4,6 +4,10 @@
 /// source, zero offset, zero delay, instant reset.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash)]
 pub enum Parasitic {
+    /// The current reference's own temperature and supply law (a key `i` given as a reference).
+    CurrentRef,
+    /// The threshold generator's own temperature and supply law (`v_lo`, `v_hi` as references).
+    ThresholdRef,
     /// Voltage coefficient of the timing capacitor (keys c_vc1, c_vc2).
     CapVc,
     /// Voltage coefficient of the timing resistor (key r_vc).
@@ -31,7 +35,9 @@ pub enum Parasitic {
     Reset,
 }
 
-pub const ALL: [Parasitic; 12] = [
+pub const ALL: [Parasitic; 14] = [
+    Parasitic::CurrentRef,
+    Parasitic::ThresholdRef,
     Parasitic::CapVc,
     Parasitic::ResVc,
     Parasitic::SwitchCap,
@@ -50,6 +56,8 @@ impl Parasitic {
     /// Stable short name (used as a metric / table key).
     pub fn name(self) -> &'static str {
         match self {
+            Parasitic::CurrentRef => "current_ref",
+            Parasitic::ThresholdRef => "threshold_ref",
             Parasitic::CapVc => "cap_vc",
             Parasitic::ResVc => "res_vc",
             Parasitic::SwitchCap => "switch_cap",
@@ -67,6 +75,8 @@ impl Parasitic {
     /// Human label for tables and plots.
     pub fn label(self) -> &'static str {
         match self {
+            Parasitic::CurrentRef => "current reference",
+            Parasitic::ThresholdRef => "threshold reference",
             Parasitic::CapVc => "capacitor voltage coefficient",
             Parasitic::ResVc => "resistor voltage coefficient",
             Parasitic::SwitchCap => "switch junction capacitance",
@@ -79,6 +89,14 @@ impl Parasitic {
             Parasitic::LogicDelay => "latch and logic delay",
             Parasitic::SwitchDelay => "switch delay",
             Parasitic::Reset => "finite reset",
+        }
+    }
+    /// Keys whose value may be a reference of this parasitic (none for the others).
+    pub fn reference_keys(self) -> &'static [&'static str] {
+        match self {
+            Parasitic::CurrentRef => &["i"],
+            Parasitic::ThresholdRef => &["v_lo", "v_hi"],
+            _ => &[],
         }
     }
     /// Whether it belongs to the comparators (the "ideal comparators" scenario turns these off).

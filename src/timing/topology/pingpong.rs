@@ -90,8 +90,8 @@ pub(crate) struct Node<'a> {
 
 pub(crate) fn node<'a>(v: &'a View<'_>) -> Result<Node<'a>, String> {
     let o = v.o;
-    let vl = v_reset(o);
-    let vref = o.params.get("v_hi") + v.vos_hi();
+    let vl = v_reset(o) + v.ref_shift("v_lo");
+    let vref = o.params.get("v_hi") + v.vos_hi() + v.ref_shift("v_hi");
     if vref <= vl {
         return Err(format!("the threshold with offset, {vref:.4} V, is not above the reset level {vl} V"));
     }

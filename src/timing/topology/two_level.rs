@@ -92,7 +92,7 @@ pub(crate) struct Node<'a> {
 pub(crate) fn node<'a>(v: &'a View<'_>, latch: bool) -> Result<Node<'a>, String> {
     let o = v.o;
     let (lo0, hi0) = thresholds(o);
-    let (lo, hi) = (lo0 + v.vos_lo(), hi0 + v.vos_hi());
+    let (lo, hi) = (lo0 + v.vos_lo() + v.ref_shift("v_lo"), hi0 + v.vos_hi() + v.ref_shift("v_hi"));
     check_levels(o, lo, hi)?;
     let vdd = v.env.vdd;
     let rc = rc_mode(o);
