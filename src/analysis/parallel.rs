@@ -72,6 +72,12 @@ where
     Ok(out)
 }
 
+/// `f(0) … f(n−1)` in parallel on all cores (or the pool this runs in), in index order; the
+/// error of the lowest failing index.
+pub fn map<T: Send>(n: usize, what: &str, f: impl Fn(usize) -> Result<T, String> + Sync) -> Result<Vec<T>, String> {
+    map_range(0..n as u64, 0, what, |k| f(k as usize))
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

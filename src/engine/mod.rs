@@ -9,6 +9,7 @@ pub mod division;
 pub mod docs;
 pub mod errors;
 pub mod fit_api;
+pub mod grid_api;
 pub mod monte_carlo_api;
 pub mod physics_api;
 pub mod prepass;
@@ -76,6 +77,7 @@ pub fn build(session: &Shared, max_ops: u64) -> Engine {
     reference_api::register(&mut engine);
     timing_api::register(&mut engine, session);
     analysis_api::register(&mut engine);
+    grid_api::register(&mut engine);
     fit_api::register(&mut engine, session);
     monte_carlo_api::register(&mut engine, session);
     engine

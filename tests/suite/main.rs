@@ -2,6 +2,7 @@
 //! the test build short on small machines. Each module is one area; every external check names
 //! its source beside it.
 mod analysis_fit;
+mod analysis_grid;
 mod analysis_monte_carlo;
 mod analysis_noise;
 mod architecture;
