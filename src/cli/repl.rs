@@ -36,6 +36,10 @@ pub struct ReplArgs {
     /// Seed of every random stream
     #[arg(long, default_value_t = 1, allow_negative_numbers = true, value_parser = super::parse_seed)]
     pub seed: u64,
+    /// Worker threads of Monte Carlo runs and sweeps (default: all cores); results are the
+    /// same for any count
+    #[arg(long, value_parser = clap::value_parser!(u64).range(1..=crate::analysis::parallel::MAX_THREADS as u64))]
+    pub threads: Option<u64>,
 }
 
 /// SIGINT while an entry runs: ask the engine to stop it (async-signal-safe: one atomic store).
@@ -54,7 +58,13 @@ fn cancel_on_interrupt() {
 }
 
 pub fn repl(a: &ReplArgs) -> i32 {
-    let o = Options { root: a.root.clone(), out: a.out.clone(), seed: a.seed, max_ops: a.max_ops };
+    let o = Options {
+        root: a.root.clone(),
+        out: a.out.clone(),
+        seed: a.seed,
+        max_ops: a.max_ops,
+        threads: a.threads.unwrap_or(0) as usize,
+    };
     let mut ev = match ReplSession::new(&o) {
         Ok(e) => e,
         Err(e) => {

@@ -29,6 +29,8 @@ pub struct Options {
     pub out: PathBuf,
     pub seed: u64,
     pub max_ops: u64,
+    /// Worker threads of Monte Carlo runs and sweeps (0: all cores).
+    pub threads: usize,
 }
 
 /// Why an entry gave no result.
@@ -65,6 +67,7 @@ impl ReplSession {
         let sandbox = Sandbox::new(&o.root, &out, &o.root)?;
         let mut session = Session::new("repl", sandbox);
         session.seed = o.seed;
+        session.threads = o.threads;
         let session = Shared::new(session);
         let mut engine = super::build(&session, o.max_ops);
         engine.on_progress(|_| CANCEL.swap(false, Ordering::Relaxed).then(|| Dynamic::from("cancelled")));
