@@ -83,5 +83,25 @@ fn series_expression(c: &mut Criterion) {
     g.finish();
 }
 
-criterion_group!(benches, trivial_run, series_expression);
+/// The cost of the true-quotient `/` on integers (`engine::division`): it needs Rhai's fast
+/// built-in operators off, so every scalar operator in a script loop is looked up. The same
+/// loop with fast operators back on is the reference (there `3/5` would be 0 again).
+fn scalar_operators(c: &mut Criterion) {
+    let sandbox = Sandbox::new(Path::new("."), Path::new("."), Path::new(".")).unwrap();
+    let mut s = Session::new("bench", sandbox);
+    s.echo = false;
+    let shared = Shared::new(s);
+    let code = "let s = 0.0; for k in 0..100000 { s += k * 0.5 + k / 7 - 1.0; } s";
+    let mut g = c.benchmark_group("scalar_loop_1e5");
+    g.sample_size(20);
+    for (name, fast) in [("fast_builtin_operators", true), ("true_quotient", false)] {
+        let mut e = engine::build(&shared, engine::DEFAULT_MAX_OPS);
+        e.set_fast_operators(fast);
+        let ast = e.compile(code).unwrap();
+        g.bench_function(name, |bench| bench.iter(|| std::hint::black_box(e.eval_ast::<f64>(&ast).unwrap())));
+    }
+    g.finish();
+}
+
+criterion_group!(benches, trivial_run, series_expression, scalar_operators);
 criterion_main!(benches);

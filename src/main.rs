@@ -12,9 +12,10 @@ fn main() {
             .map(|s| s.to_string())
             .or_else(|| info.payload().downcast_ref::<String>().cloned())
             .unwrap_or_default();
-        eprintln!(
+        // Never `eprintln!` here: a failed write to stderr inside the hook would abort.
+        tickwork::engine::term::err(&format!(
             "tickwork: internal error{place}: {msg}\nthis is a bug in tickwork; please report it with the script that caused it"
-        );
+        ));
     }));
     tickwork::num::alloc::keep_large_blocks();
     let cli = tickwork::cli::Cli::parse();

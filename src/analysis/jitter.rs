@@ -29,6 +29,8 @@ pub struct RampNoise {
     /// and carried into the next ramp (0 when the node is reset), s/V.
     pub own: f64,
     pub carry: f64,
+    /// RMS threshold error of the decision that ends this ramp, V.
+    pub sigma_v: f64,
 }
 
 /// The jitter of one oscillator.
@@ -43,7 +45,7 @@ pub struct Jitter {
     /// σ of the period from each source alone (current, threshold), s.
     pub sigma_current: f64,
     pub sigma_threshold: f64,
-    /// Threshold error σ at a decision, V.
+    /// Threshold error σ at a decision (the largest where the comparators differ), V.
     pub sigma_v: f64,
     /// Long-run growth of the timing variance, s²/s (Demir's c): Var(τ_N)/(N·T) as N → ∞.
     pub diffusion: f64,
@@ -83,16 +85,18 @@ pub fn ramps(o: &Osc, noise: &Noise) -> Result<(f64, Vec<RampNoise>), String> {
             ramp: p.ramp,
             current,
             slope: p.slope,
-            sigma_current: sigma_ramp(noise.i_noise * noise.i_noise, p.ramp, current),
+            sigma_current: sigma_ramp(noise.current_psd(p.slope > 0.0), p.ramp, current),
             own: 1.0 / p.slope.abs(),
             carry: if carry { 1.0 / next.slope.abs() } else { 0.0 },
+            sigma_v: noise.sigma_threshold(p.slope > 0.0),
         });
     }
     Ok((cy.period, out))
 }
 
 /// Variances of one period, of consecutive-period differences, and the per-cycle growth of
-/// the accumulated timing variance, for current σ's `w` and threshold σ `sv`.
+/// the accumulated timing variance, for current σ's `w` and the ramps' threshold σ's times `sv`
+/// (1 with the threshold noise, 0 without).
 fn variances(r: &[RampNoise], w: &[f64], sv: f64) -> (f64, f64, f64) {
     let n = r.len();
     let last = n - 1;
@@ -103,7 +107,7 @@ fn variances(r: &[RampNoise], w: &[f64], sv: f64) -> (f64, f64, f64) {
         var_t += wk;
         var_d += 2.0 * wk;
         grow += wk;
-        let (a, b) = (r[k].own * sv, r[k].carry * sv);
+        let (a, b) = (r[k].own * r[k].sigma_v * sv, r[k].carry * r[k].sigma_v * sv);
         if k < last {
             // Decision inside the cycle: both effects land in the same period.
             var_t += (a + b).powi(2);
@@ -137,12 +141,12 @@ pub fn jitter_with(o: &Osc, noise: Noise) -> Result<Jitter, String> {
     if r.is_empty() {
         return Err(format!("{}: the cycle has no ramp to carry noise", o.caller()));
     }
-    let sv = noise.sigma_threshold();
+    let sv = r.iter().map(|x| x.sigma_v).fold(0.0, f64::max);
     let w: Vec<f64> = r.iter().map(|x| x.sigma_current).collect();
     let zero = vec![0.0; r.len()];
-    let (var_t, var_d, grow) = variances(&r, &w, sv);
+    let (var_t, var_d, grow) = variances(&r, &w, 1.0);
     let (var_i, _, _) = variances(&r, &w, 0.0);
-    let (var_v, _, _) = variances(&r, &zero, sv);
+    let (var_v, _, _) = variances(&r, &zero, 1.0);
     Ok(Jitter {
         period,
         sigma_period: var_t.sqrt(),
@@ -162,12 +166,11 @@ pub fn accumulated_white(j: &Jitter, n: usize) -> f64 {
     if n == 0 {
         return 0.0;
     }
-    let sv = j.sigma_v;
     let last = j.ramps.len() - 1;
     let mut var = 0.0;
     for (k, r) in j.ramps.iter().enumerate() {
         var += n as f64 * r.sigma_current.powi(2);
-        let (a, b) = (r.own * sv, r.carry * sv);
+        let (a, b) = (r.own * r.sigma_v, r.carry * r.sigma_v);
         var += if k < last { n as f64 * (a + b).powi(2) } else { (n as f64 - 1.0) * (a + b).powi(2) + a * a + b * b };
     }
     var.sqrt()

@@ -1,13 +1,18 @@
 //! Analyses of an oscillator built on the timing layer: sensitivities, tempco and supply
-//! coefficient, jitter and phase noise, and least-squares fits of data. Plain Rust; each
+//! coefficient, the PVT grid, the key value for a target period, jitter and phase noise, and
+//! least-squares fits of data. Plain Rust; each
 //! analysis calls the oscillator only through `Osc::with`, `at`, `period` and `cycle`.
 pub mod fit_curve;
 pub mod fit_linear;
 pub mod jitter;
+pub mod parallel;
 pub mod phase_noise;
+pub mod pvt;
 pub mod sensitivity;
+pub mod solve;
 pub mod stats;
 pub mod tempco;
+pub mod trim;
 
 /// A test oscillator: the basic keys c = 1 pF, i = 1 µA, v_lo = 0.6 V, v_hi = 1.2 V and `extra`.
 #[cfg(test)]

@@ -3,6 +3,7 @@
 use std::path::Path;
 
 use crate::engine::docs;
+use crate::engine::term::err;
 
 /// Text describing `name` (all forms), or None if it is not a documented function.
 pub fn describe(name: &str) -> Option<String> {
@@ -40,10 +41,10 @@ pub fn doc(name: Option<&str>, markdown: bool) -> i32 {
             }
             None => {
                 let sim = similar(n);
-                eprintln!(
+                err(&format!(
                     "no function named '{n}'{}",
                     if sim.is_empty() { String::new() } else { format!("; similar: {}", sim.join(", ")) }
-                );
+                ));
                 super::EXIT_SCRIPT_ERROR
             }
         },
@@ -74,7 +75,7 @@ pub fn defs(out: &Path) -> i32 {
             0
         }
         Err(e) => {
-            eprintln!("cannot write {}: {e}", out.display());
+            err(&format!("cannot write {}: {e}", out.display()));
             super::EXIT_SCRIPT_ERROR
         }
     }

@@ -1,4 +1,5 @@
 //! Command-line verbs.
+pub mod digest;
 pub mod discover;
 pub mod docs_cmd;
 pub mod repl;
@@ -14,6 +15,8 @@ pub const EXIT_SCRIPT_ERROR: i32 = 1;
 pub const EXIT_USAGE: i32 = 2;
 /// Exit code when every script ran but a metric failed its spec.
 pub const EXIT_SPEC_FAILED: i32 = 3;
+/// Exit code of `digest` and `compare` when a metric regressed.
+pub const EXIT_REGRESSION: i32 = 4;
 
 #[derive(Parser, Debug)]
 #[command(name = "tickwork", version, about = "Scripted timing-circuit calculations with Markdown reports")]
@@ -26,6 +29,10 @@ pub struct Cli {
 pub enum Cmd {
     /// Run scripts and folders of scripts; each writes OUT/<sub/path>/<name>/report.md
     Run(run::RunArgs),
+    /// The Markdown digest of a metrics history: trends, changes, regressions first
+    Digest(digest::DigestArgs),
+    /// Compare two runs' results (output folders or results.json files), metric by metric
+    Compare(digest::CompareArgs),
     /// Interactive session (reads a pipe too)
     Repl(repl::ReplArgs),
     /// Show the documentation of one function, or list all
@@ -47,6 +54,8 @@ pub enum Cmd {
 pub fn main(cli: Cli) -> i32 {
     match cli.cmd {
         Cmd::Run(a) => run::run(&a),
+        Cmd::Digest(a) => digest::digest(&a),
+        Cmd::Compare(a) => digest::compare(&a),
         Cmd::Repl(a) => repl::repl(&a),
         Cmd::Doc { name, markdown } => docs_cmd::doc(name.as_deref(), markdown),
         Cmd::Defs { out } => docs_cmd::defs(&out),

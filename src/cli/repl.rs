@@ -19,6 +19,7 @@ use crate::engine::errors::{from_eval, from_eval_in, from_parse};
 use crate::engine::prepass::is_incomplete;
 use crate::engine::script::prepare_into_session;
 use crate::engine::session::{Session, Shared};
+use crate::engine::term::err;
 use crate::engine::{self, docs, sandbox::Sandbox};
 
 /// The prompt, and the one for an entry that needs more lines.
@@ -151,7 +152,7 @@ impl Evaluator {
         }
         Ok(Some(match result.as_float() {
             Ok(x) => format!("{x:?}"), // exact and short: 3.32e-6, not 0.00000332
-            Err(_) => result.to_string(),
+            Err(_) => crate::engine::display::text_of(&self.engine, &result),
         }))
     }
 
@@ -259,7 +260,7 @@ pub fn repl(a: &ReplArgs) -> i32 {
     let mut ev = match Evaluator::new(a) {
         Ok(e) => e,
         Err(e) => {
-            eprintln!("error: {e}");
+            err(&format!("error: {e}"));
             return super::EXIT_SCRIPT_ERROR;
         }
     };
@@ -302,7 +303,7 @@ fn report(r: Result<Option<String>, Entry>) -> i32 {
         }
         Ok(None) | Err(Entry::Incomplete) => 0,
         Err(Entry::Failed(e)) => {
-            eprintln!("{e}");
+            err(&e.to_string());
             super::EXIT_SCRIPT_ERROR
         }
     }
@@ -313,7 +314,7 @@ fn interactive(ev: &mut Evaluator) -> i32 {
     let mut rl = match rustyline::Editor::<LineHelper, rustyline::history::DefaultHistory>::new() {
         Ok(r) => r,
         Err(e) => {
-            eprintln!("cannot start the line editor: {e}");
+            err(&format!("cannot start the line editor: {e}"));
             return super::EXIT_SCRIPT_ERROR;
         }
     };

@@ -7,6 +7,7 @@ use clap::Args;
 use rayon::prelude::*;
 
 use super::discover::{self, Job};
+use crate::engine::term::err;
 use crate::engine::{
     self,
     sandbox::Sandbox,
@@ -90,14 +91,14 @@ pub fn run(a: &RunArgs) -> i32 {
     let sets = match parse_sets(&a.set) {
         Ok(s) => s,
         Err(e) => {
-            eprintln!("error: {e}");
+            err(&format!("error: {e}"));
             return super::EXIT_USAGE;
         }
     };
     let jobs = match discover::jobs(&a.files) {
         Ok(j) => j,
         Err(e) => {
-            eprintln!("error: {e}");
+            err(&format!("error: {e}"));
             return super::EXIT_USAGE;
         }
     };
@@ -107,7 +108,7 @@ pub fn run(a: &RunArgs) -> i32 {
     let job_sets: Vec<BTreeMap<String, String>> = if batch && !sets.is_empty() {
         let declared: Vec<Vec<String>> = jobs.iter().map(|j| declared_consts(&j.file)).collect();
         if let Some(nobody) = sets.keys().find(|k| !declared.iter().any(|d| d.contains(k))) {
-            eprintln!("error: --set {nobody}: no script of this run declares a top-level constant '{nobody}'");
+            err(&format!("error: --set {nobody}: no script of this run declares a top-level constant '{nobody}'"));
             return super::EXIT_USAGE;
         }
         declared
@@ -120,10 +121,10 @@ pub fn run(a: &RunArgs) -> i32 {
     let prior = match a.history.as_deref().map(History::read).transpose() {
         Ok(h) => h,
         Err(e) => {
-            eprintln!(
+            err(&format!(
                 "error: --history {}: cannot read it: {e}",
                 a.history.as_ref().map(|p| p.display().to_string()).unwrap_or_default()
-            );
+            ));
             return super::EXIT_SCRIPT_ERROR;
         }
     };
@@ -140,7 +141,7 @@ pub fn run(a: &RunArgs) -> i32 {
     };
     for d in &done {
         for m in &d.messages {
-            eprintln!("{m}");
+            err(m);
         }
     }
     // A script error (1) outranks a failed spec (3): CI must see that a script did not run.
@@ -153,15 +154,15 @@ pub fn run(a: &RunArgs) -> i32 {
     if let Err(e) = std::fs::create_dir_all(&a.out)
         .and_then(|_| report::output::write_atomic(&a.out.join("index.md"), index::render(&entries).as_bytes()))
     {
-        eprintln!("error: cannot write {}: {e}", a.out.join("index.md").display());
+        err(&format!("error: cannot write {}: {e}", a.out.join("index.md").display()));
         code = super::EXIT_SCRIPT_ERROR;
     }
     if let (Some(path), Some(prior)) = (&a.history, &prior) {
         for b in &prior.bad {
-            eprintln!("{}:{}: skipped: {}", path.display(), b.line, b.why);
+            err(&format!("{}:{}: skipped: {}", path.display(), b.line, b.why));
         }
         if let Err(e) = append_history(a, path, prior.next_run(), &done) {
-            eprintln!("error: cannot append to the history {}: {e}", path.display());
+            err(&format!("error: cannot append to the history {}: {e}", path.display()));
             code = super::EXIT_SCRIPT_ERROR;
         }
     }
@@ -213,6 +214,11 @@ fn run_one(a: &RunArgs, job: &Job, sets: &BTreeMap<String, String>, echo: bool) 
             ..Default::default()
         },
     };
+    // A FIFO or a device as the script would block or never end: only plain files are scripts.
+    if std::fs::metadata(file).is_ok_and(|m| !m.is_file()) {
+        done.messages.push(format!("{shown}: cannot read the script: not a regular file (a folder, pipe or device)"));
+        return done;
+    }
     let text = match std::fs::read_to_string(file) {
         Ok(t) => t,
         Err(e) => {
@@ -231,14 +237,12 @@ fn run_one(a: &RunArgs, job: &Job, sets: &BTreeMap<String, String>, echo: bool) 
             return done;
         }
     };
-    if let Some(rel) =
-        file.canonicalize().ok().and_then(|c| c.strip_prefix(&sandbox.root).ok().map(|r| r.display().to_string()))
-    {
-        done.prov.script = Some(rel);
-    }
     let mut session = Session::new(&name, sandbox);
     session.overrides = sets.clone();
     session.seed = a.seed;
+    session.stamp = a.stamp;
+    session.set_script(file, &shown, &text);
+    done.prov.script = session.script.as_ref().map(|s| s.path.clone());
     session.echo = echo;
     let shared = Shared::new(session);
     let engine = engine::build(&shared, a.max_ops);
@@ -249,9 +253,7 @@ fn run_one(a: &RunArgs, job: &Job, sets: &BTreeMap<String, String>, echo: bool) 
         return done;
     }
     let g = shared.lock();
-    done.prov.inputs = engine::report_api::included_files(&g, Some(&shown));
-    done.prov.overrides = g.overrides.clone();
-    done.prov.stamp = a.stamp.then(report::provenance::utc_now);
+    done.prov = g.provenance();
     if let Err(e) = report::output::write(&g.report, &done.prov, &out_dir) {
         done.messages.push(format!(
             "{shown}: cannot write the report into {}: {e}; report.md there, if any, is the previous run's",

@@ -48,6 +48,7 @@ fn jitter_map(j: &Jitter) -> Map {
     m.insert("sigma_period".into(), f(j.sigma_period));
     m.insert("sigma_c2c".into(), f(j.sigma_c2c));
     m.insert("sigma_v".into(), f(j.sigma_v));
+    m.insert("from_devices".into(), Dynamic::from_bool(j.noise.from_devices));
     m.insert("diffusion".into(), f(j.diffusion));
     let mut c = Map::new();
     c.insert("current".into(), f(j.sigma_current));
@@ -174,7 +175,7 @@ pub fn register(engine: &mut Engine) {
     api::fun(
         engine,
         "o.jitter() -> map",
-        "period jitter from the noise keys (i_noise A/√Hz, vn_cmp V/√Hz over cmp_nbw Hz, vn_ref V rms; Abidi–Meyer ramp treatment): #{sigma_period, sigma_c2c (s), sigma_v (threshold σ, V), contributions #{current, threshold} (σ of the period from each alone, s), diffusion (s²/s), ramps (array of #{name, ramp, current, slope, sigma})}",
+        "period jitter from the noise keys (i_noise A/√Hz, vn_cmp V/√Hz over cmp_nbw Hz, vn_ref V rms; Abidi–Meyer ramp treatment); for osc_from, the channel thermal noise of the mirror and comparator input-pair devices where i_noise or vn_cmp is not given: #{sigma_period, sigma_c2c (s), sigma_v (threshold σ, V), from_devices (bool), contributions #{current, threshold} (σ of the period from each alone, s), diffusion (s²/s), ramps (array of #{name, ramp, current, slope, sigma})}",
         |o: &mut Osc| -> R<Map> { Ok(jitter_map(&lift(jitter(o))?)) },
     );
     api::fun(

@@ -4,9 +4,12 @@ pub mod analysis_api;
 pub mod api;
 pub mod args;
 pub mod core_api;
+pub mod display;
+pub mod division;
 pub mod docs;
 pub mod errors;
 pub mod fit_api;
+pub mod grid_api;
 pub mod physics_api;
 pub mod prepass;
 pub mod reference_api;
@@ -62,8 +65,10 @@ pub fn build(session: &Shared, max_ops: u64) -> Engine {
         }
         Ok(format!("{x:?}"))
     });
-    engine.on_debug(|text, _src, pos| eprintln!("debug (line {}): {text}", pos.line().unwrap_or(0)));
+    engine.on_debug(|text, _src, pos| term::err(&format!("debug (line {}): {text}", pos.line().unwrap_or(0))));
 
+    division::register(&mut engine);
+    display::register(&mut engine);
     core_api::register(&mut engine, session);
     series_api::register(&mut engine);
     report_api::register(&mut engine, session);
@@ -71,6 +76,7 @@ pub fn build(session: &Shared, max_ops: u64) -> Engine {
     reference_api::register(&mut engine);
     timing_api::register(&mut engine, session);
     analysis_api::register(&mut engine);
+    grid_api::register(&mut engine);
     fit_api::register(&mut engine, session);
     engine
 }

@@ -8,7 +8,7 @@ use super::session::Shared;
 use super::value::to_f64;
 use crate::num::Series;
 use crate::report::plot::{self, Kind, Plot};
-use crate::report::{Cell, Column, Figure, Item, Metric, Provenance, Spec, Table, format};
+use crate::report::{Cell, Column, Figure, Item, Metric, Spec, Table, format};
 
 /// Reject option keys other than `allowed`, naming them all.
 fn check_keys(what: &str, m: &Map, allowed: &[&str]) -> R<()> {
@@ -189,25 +189,18 @@ pub fn register(engine: &mut Engine, shared: &Shared) {
     );
 }
 
-/// An object of a registered type (oscillator, process, device) as the text its own
-/// `to_string` gives; every other value as it is.
+/// Numbers and series stay values (`show` formats them with units and digits); anything else
+/// becomes its text: an object as its own `to_string`, a map or array element by element.
 fn shown(ctx: &NativeCallContext, v: Dynamic) -> Dynamic {
-    let plain = v.is_float()
+    let numbers = v.is_float()
         || v.is_int()
         || v.is_string()
-        || v.is_bool()
-        || v.is_char()
-        || v.is_unit()
-        || v.is_array()
-        || v.is_map()
-        || v.is::<Series>();
-    if plain {
+        || v.is::<Series>()
+        || v.clone().try_cast::<Array>().is_some_and(|a| a.iter().all(|x| x.is_float() || x.is_int()));
+    if numbers {
         return v;
     }
-    match ctx.call_fn::<String>("to_string", (v.clone(),)) {
-        Ok(t) => Dynamic::from(t),
-        Err(_) => Dynamic::from(ctx.engine().map_type_name(v.type_name()).to_string()),
-    }
+    Dynamic::from(super::display::text_in(ctx, &v))
 }
 
 fn show(s: &Shared, label: &str, v: &Dynamic, unit: &str, opts: &Map) -> R<()> {
@@ -510,48 +503,10 @@ fn metric(s: &Shared, name: &str, v: &Dynamic, unit: &str, spec: &Map) -> R<()> 
     Ok(())
 }
 
-/// Every file the run read, for the provenance: data files in the order they were read, then
-/// the script modules it imported from the project (by path). Built-in `stdlib/` modules are
-/// part of the tool version and the REPL's own entries are not files, so neither is listed.
-pub fn included_files(g: &super::session::Session, script: Option<&str>) -> Vec<(String, String)> {
-    let mut v = g.inputs.clone();
-    let mut modules: Vec<(String, String)> = g
-        .sources
-        .files
-        .iter()
-        .filter(|(name, _)| Some(name.as_str()) != script && !name.starts_with("repl["))
-        .filter(|(name, (text, _))| {
-            let builtin = name
-                .strip_prefix("stdlib/")
-                .and_then(|n| n.strip_suffix(".rhai"))
-                .and_then(super::stdlib::get)
-                .is_some_and(|src| src == text);
-            !builtin
-        })
-        .map(|(name, (text, _))| (name.clone(), crate::report::provenance::sha256_hex(text.as_bytes())))
-        .collect();
-    modules.sort();
-    for m in modules {
-        if !v.iter().any(|(p, _)| *p == m.0) {
-            v.push(m);
-        }
-    }
-    v
-}
-
 fn save_report(s: &Shared, dir: &str) -> R<String> {
     let g = s.lock();
     let path = g.sandbox.writable(dir).map_err(|e| format!("save_report: {e}"))?;
-    let prov = Provenance {
-        tool: Provenance::tool(),
-        script: None,
-        script_sha256: None,
-        inputs: included_files(&g, None),
-        overrides: g.overrides.clone(),
-        seed: g.seed,
-        stamp: None,
-    };
-    crate::report::output::write(&g.report, &prov, &path)
+    crate::report::output::write(&g.report, &g.provenance(), &path)
         .map_err(|e| format!("save_report: cannot write into {}: {e}", path.display()))?;
     let shown = path.display().to_string();
     if g.echo {

@@ -1,5 +1,6 @@
 //! `import "name" as x;`: modules from the embedded `stdlib/`, then `name.rhai` beside the
-//! script (inside the project root). Modules go through the same pre-pass as scripts.
+//! script (inside the project root). Modules go through the same pre-pass as scripts. A module
+//! that imports itself, directly or through others, is refused with the cycle named.
 use std::collections::HashMap;
 use std::sync::{Arc, Mutex};
 
@@ -13,11 +14,25 @@ use super::stdlib;
 pub struct Resolver {
     session: Shared,
     cache: Mutex<HashMap<String, RhaiShared<Module>>>,
+    /// Source names of the modules being loaded now, outermost first (the running script
+    /// first when known): an import of one of them is a cycle.
+    loading: Mutex<Vec<String>>,
 }
 
 impl Resolver {
     pub fn new(session: Shared) -> Self {
-        Resolver { session, cache: Mutex::new(HashMap::new()) }
+        Resolver { session, cache: Mutex::new(HashMap::new()), loading: Mutex::new(Vec::new()) }
+    }
+
+    /// The chain `a.rhai → b.rhai → a.rhai` if loading `name` now would close a cycle.
+    fn cycle(&self, name: &str) -> Option<String> {
+        let loading = self.loading.lock().unwrap_or_else(|p| p.into_inner());
+        let script = self.session.lock().script.as_ref().map(|s| s.path.clone());
+        let chain: Vec<String> = script.into_iter().chain(loading.iter().cloned()).collect();
+        let k = chain.iter().position(|n| n == name)?;
+        let mut names: Vec<&str> = chain[k..].iter().map(String::as_str).collect();
+        names.push(name);
+        Some(format!("import cycle: {}; a module cannot import itself, directly or through others", names.join(" → ")))
     }
 
     /// Source name and text of module `path`.
@@ -50,6 +65,27 @@ impl ModuleResolver for Resolver {
         }
         let fail = |msg: String| Box::new(EvalAltResult::ErrorRuntime(msg.into(), pos));
         let (name, text) = self.load(path).map_err(fail)?;
+        if let Some(msg) = self.cycle(&name) {
+            return Err(fail(msg));
+        }
+        self.loading.lock().unwrap_or_else(|p| p.into_inner()).push(name.clone());
+        let r = self.compile(engine, name, text, pos);
+        self.loading.lock().unwrap_or_else(|p| p.into_inner()).pop();
+        let module = r?;
+        self.cache.lock().unwrap_or_else(|p| p.into_inner()).insert(path.to_string(), module.clone());
+        Ok(module)
+    }
+}
+
+impl Resolver {
+    /// Pre-pass, compile and evaluate module `name` (its imports resolve recursively).
+    fn compile(
+        &self,
+        engine: &Engine,
+        name: String,
+        text: String,
+        pos: Position,
+    ) -> Result<RhaiShared<Module>, Box<EvalAltResult>> {
         let prepared = match prepare(&text, None) {
             Ok(p) => p,
             Err(e) => {
@@ -67,8 +103,6 @@ impl ModuleResolver for Resolver {
         ast.set_source(name.as_str());
         let module = Module::eval_ast_as_new(Scope::new(), &ast, engine)
             .map_err(|e| Box::new(EvalAltResult::ErrorInModule(name.clone(), e, pos)))?;
-        let module: RhaiShared<Module> = Arc::new(module);
-        self.cache.lock().unwrap_or_else(|p| p.into_inner()).insert(path.to_string(), module.clone());
-        Ok(module)
+        Ok(Arc::new(module))
     }
 }

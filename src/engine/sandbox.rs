@@ -49,6 +49,12 @@ impl Sandbox {
         if !c.starts_with(&self.root) {
             return Err(outside());
         }
+        // A FIFO, socket or device would block or never end: only plain files are read.
+        if !std::fs::metadata(&c).is_ok_and(|m| m.is_file()) {
+            return Err(format!(
+                "'{rel}' is not a regular file (a folder, pipe or device); scripts read only plain files"
+            ));
+        }
         Ok(c)
     }
 

@@ -4,7 +4,18 @@ use std::sync::{Arc, Mutex, MutexGuard};
 
 use super::prepass::ColumnMap;
 use super::sandbox::Sandbox;
+use crate::report::provenance::{Provenance, sha256_hex, utc_now};
 use crate::report::{Item, Report};
+
+/// The script a run executes, as its provenance names it.
+#[derive(Clone, Debug)]
+pub struct ScriptFile {
+    /// Path relative to the project root, so the report reads the same from any folder.
+    pub path: String,
+    /// The name its source is registered under for error messages (as given on the command line).
+    pub source: String,
+    pub sha256: String,
+}
 
 /// Text and column map of each compiled source, by source name, for error messages.
 #[derive(Default, Debug)]
@@ -29,6 +40,10 @@ pub struct Session {
     /// Files the script read (process files, CSV data), in order: (path relative to the
     /// project root, SHA-256 in hex). The report's provenance lists them.
     pub inputs: Vec<(String, String)>,
+    /// The script file of a run (None in the REPL).
+    pub script: Option<ScriptFile>,
+    /// Write the UTC time into the provenance (`--stamp`).
+    pub stamp: bool,
 }
 
 impl Session {
@@ -43,20 +58,72 @@ impl Session {
             sandbox,
             sources: Sources::default(),
             inputs: Vec::new(),
+            script: None,
+            stamp: false,
         }
+    }
+
+    /// Record the script file of a run: its path relative to the project root (as given when
+    /// it lies outside) and the hash of its text.
+    pub fn set_script(&mut self, file: &std::path::Path, shown: &str, text: &str) {
+        let path = file
+            .canonicalize()
+            .ok()
+            .and_then(|c| c.strip_prefix(&self.sandbox.root).ok().map(|r| r.display().to_string()))
+            .unwrap_or_else(|| shown.to_string());
+        self.script = Some(ScriptFile { path, source: shown.to_string(), sha256: sha256_hex(text.as_bytes()) });
+    }
+
+    /// The provenance of the report built so far: the one place it is assembled, for `run`
+    /// and for `save_report`.
+    pub fn provenance(&self) -> Provenance {
+        Provenance {
+            tool: Provenance::tool(),
+            script: self.script.as_ref().map(|s| s.path.clone()),
+            script_sha256: self.script.as_ref().map(|s| s.sha256.clone()),
+            inputs: self.included_files(),
+            overrides: self.overrides.clone(),
+            seed: self.seed,
+            stamp: self.stamp.then(utc_now),
+        }
+    }
+
+    /// Every file the run read: data files in the order they were read, then the script
+    /// modules it imported from the project (by path). Built-in `stdlib/` modules are part of
+    /// the tool version and the REPL's own entries are not files, so neither is listed.
+    fn included_files(&self) -> Vec<(String, String)> {
+        let script = self.script.as_ref().map(|s| s.source.as_str());
+        let mut v = self.inputs.clone();
+        let mut modules: Vec<(String, String)> = self
+            .sources
+            .files
+            .iter()
+            .filter(|(name, _)| Some(name.as_str()) != script && !name.starts_with("repl["))
+            .filter(|(name, (text, _))| {
+                let builtin = name
+                    .strip_prefix("stdlib/")
+                    .and_then(|n| n.strip_suffix(".rhai"))
+                    .and_then(super::stdlib::get)
+                    .is_some_and(|src| src == text);
+                !builtin
+            })
+            .map(|(name, (text, _))| (name.clone(), sha256_hex(text.as_bytes())))
+            .collect();
+        modules.sort();
+        for m in modules {
+            if !v.iter().any(|(p, _)| *p == m.0) {
+                v.push(m);
+            }
+        }
+        v
     }
 
     /// Read a data file the script names (relative to the script's folder, inside the project
     /// root) and record it with its hash for the report's provenance.
     pub fn read_input(&mut self, rel: &str) -> Result<String, String> {
-        use sha2::{Digest, Sha256};
         let path = self.sandbox.readable(rel)?;
-        // A FIFO or a device would block or never end; only plain files are data.
-        if !std::fs::metadata(&path).map(|m| m.is_file()).unwrap_or(false) {
-            return Err(format!("'{rel}' is not a regular file"));
-        }
         let bytes = std::fs::read(&path).map_err(|e| format!("cannot read '{rel}': {e}"))?;
-        let hash: String = Sha256::digest(&bytes).iter().map(|b| format!("{b:02x}")).collect();
+        let hash = sha256_hex(&bytes);
         let shown = path.strip_prefix(&self.sandbox.root).unwrap_or(&path).display().to_string();
         if !self.inputs.iter().any(|(p, _)| *p == shown) {
             self.inputs.push((shown, hash));

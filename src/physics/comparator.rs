@@ -8,6 +8,7 @@ use std::f64::consts::PI;
 use super::mirror::{Mirror, MirrorKind};
 use super::mismatch;
 use super::mosfet::{Mos, MosType};
+use super::noise;
 use super::process::Process;
 use crate::num::roots::brent;
 
@@ -99,13 +100,15 @@ pub struct PairDesign {
 pub struct Comparator {
     pub spec: ComparatorSpec,
     pub stage: Option<PairStage>,
+    /// One-sided input-referred white noise density of the input stage, V²/Hz (0: not modelled).
+    pub vn_psd: f64,
 }
 
 impl Comparator {
     /// A comparator from explicit numbers.
     pub fn new(spec: ComparatorSpec) -> Result<Comparator, String> {
         spec.check()?;
-        Ok(Comparator { spec, stage: None })
+        Ok(Comparator { spec, stage: None, vn_psd: 0.0 })
     }
 
     /// A comparator built from an input pair of the process: gm at Id = I_tail/2, gain
@@ -177,7 +180,13 @@ impl Comparator {
             hyst: d.hyst,
         };
         spec.check()?;
-        Ok(Comparator { spec, stage: Some(stage) })
+        Ok(Comparator { spec, stage: Some(stage), vn_psd: noise::pair_input_psd(gm, gm_load, temp) })
+    }
+
+    /// Variance of the input-referred noise at a decision, V²: the white density over the
+    /// noise bandwidth of the input's single pole at GBW/A0 (`noise::single_pole_nbw`).
+    pub fn threshold_noise_var(&self) -> f64 {
+        if self.vn_psd == 0.0 { 0.0 } else { self.vn_psd * noise::single_pole_nbw(self.spec.gbw / self.spec.a0) }
     }
 
     /// Systematic input offset, V.

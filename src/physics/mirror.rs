@@ -5,6 +5,7 @@
 //! are magnitudes.
 use super::mismatch;
 use super::mosfet::{Mos, MosType};
+use super::noise;
 use super::process::Process;
 use crate::num::math;
 use crate::num::roots::brent;
@@ -218,6 +219,20 @@ impl Mirror {
         let g = (at(headroom_max) - at(headroom_max - d)) / d;
         let f = |h: f64| at(h) - (1.0 - tol) * (i_top - (headroom_max - h) * g);
         brent(f, 1e-6, headroom_max, 1e-7, 200).map_err(|e| format!("mirror.compliance: {e}"))
+    }
+
+    /// One-sided white noise density of the output current, A²/Hz: the channel thermal noise
+    /// of the input and output devices at their bias (`noise::mirror_output_psd`); zero for a
+    /// behavioural mirror, which has no devices.
+    pub fn noise_psd(&self) -> f64 {
+        match &self.model {
+            Model::Explicit { .. } => 0.0,
+            Model::Devices { m_in, m_out, vg, .. } => {
+                let gm_in = m_in.gm(*vg, *vg, self.temp);
+                let gm_out = m_out.gm(*vg, *vg, self.temp);
+                noise::mirror_output_psd(gm_in, gm_out, self.ratio, self.temp)
+            }
+        }
     }
 
     /// Output-resistance compliance: the lowest headroom (V from the mirror's rail) above which

@@ -1,5 +1,5 @@
 //! Device physics: constants, process files, MOSFET, capacitors, resistors, switches,
-//! mirrors, comparators, mismatch. Plain Rust, no Rhai types.
+//! mirrors, comparators, mismatch, device noise. Plain Rust, no Rhai types.
 pub mod capacitor;
 pub mod comparator;
 pub mod constants;
@@ -8,6 +8,7 @@ pub mod junction;
 pub mod mirror;
 pub mod mismatch;
 pub mod mosfet;
+pub mod noise;
 pub mod process;
 pub mod reference;
 pub mod resistor;

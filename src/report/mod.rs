@@ -1,5 +1,8 @@
 //! Report model: sections of prose and outputs, tables, plots, metrics, provenance, and the
 //! files they are written to. Plain Rust; the engine turns script values into these types.
+pub mod change;
+pub mod compare;
+pub mod digest;
 pub mod format;
 pub mod git;
 pub mod history;

@@ -1,9 +1,11 @@
-//! White noise sources of an oscillator, read from its noise keys: the charging current's
-//! noise density, the comparators' input-referred noise over their noise bandwidth, and the
-//! noise of the threshold references. Shared by the jitter analysis and the noisy transient,
-//! so both see the same sources.
-use super::keys::Kind;
+//! White noise sources of an oscillator: the charging and discharging currents' noise
+//! density, the comparators' input-referred noise over their noise bandwidth, and the noise of
+//! the threshold references. From the noise keys, or, for an oscillator built from a process,
+//! from its devices (mirror and input-pair thermal noise) where the key is not given. Shared by
+//! the jitter analysis and the noisy transient, so both see the same sources.
+use super::keys::{Kind, Mode};
 use super::osc::Osc;
+pub use crate::physics::noise::single_pole_nbw;
 
 /// The noise keys (none of them changes the period).
 pub const NOISE_KEYS: [&str; 5] = ["i_noise", "i_flicker_fc", "vn_cmp", "cmp_nbw", "vn_ref"];
@@ -20,11 +22,14 @@ pub struct Noise {
     pub cmp_nbw: f64,
     /// RMS noise of each threshold reference at a decision, V.
     pub vn_ref: f64,
-}
-
-/// Equivalent noise bandwidth of a single pole at f_p: (π/2)·f_p (common practice).
-pub fn single_pole_nbw(f_pole: f64) -> f64 {
-    std::f64::consts::FRAC_PI_2 * f_pole
+    /// One-sided white noise density of the charging and of the discharging current, A²/Hz:
+    /// `i_noise`², or the source devices' own noise.
+    pub i_psd: [f64; 2],
+    /// Threshold-noise variance of a rising and of a falling decision (the high and the low
+    /// comparator), V²: comparator noise over its bandwidth plus the reference noise.
+    pub v_var: [f64; 2],
+    /// Whether some source comes from the devices of a process rather than from a key.
+    pub from_devices: bool,
 }
 
 impl Noise {
@@ -46,17 +51,40 @@ impl Noise {
                 ));
             }
         }
-        Ok(Noise { i_noise: get("i_noise"), i_flicker_fc: get("i_flicker_fc"), vn_cmp, cmp_nbw, vn_ref: get("vn_ref") })
+        let (i_noise, vn_ref) = (get("i_noise"), get("vn_ref"));
+        // A process oscillator's devices are the noise sources where no key overrides them.
+        let devices = p.mode == Mode::Process;
+        let dev_i = devices && !p.has("i_noise");
+        let dev_v = devices && !p.has("vn_cmp");
+        let parts = &o.parts;
+        let i_psd = if dev_i {
+            [parts.charge.noise_psd(), parts.discharge.noise_psd()]
+        } else {
+            [i_noise * i_noise, i_noise * i_noise]
+        };
+        let cmp = if dev_v {
+            [parts.cmp_hi.noise_var(), parts.cmp_lo.noise_var()]
+        } else {
+            [vn_cmp * vn_cmp * cmp_nbw, vn_cmp * vn_cmp * cmp_nbw]
+        };
+        let v_var = cmp.map(|v| v + vn_ref * vn_ref);
+        let from_devices = (dev_i && i_psd.iter().any(|x| *x > 0.0)) || (dev_v && cmp.iter().any(|x| *x > 0.0));
+        Ok(Noise { i_noise, i_flicker_fc: get("i_flicker_fc"), vn_cmp, cmp_nbw, vn_ref, i_psd, v_var, from_devices })
     }
 
-    /// RMS threshold error at one decision: comparator noise over its bandwidth and the
-    /// reference noise, uncorrelated, V.
-    pub fn sigma_threshold(&self) -> f64 {
-        (self.vn_cmp * self.vn_cmp * self.cmp_nbw + self.vn_ref * self.vn_ref).sqrt()
+    /// Current noise density of the source driving a rising (charging) or falling ramp, A²/Hz.
+    pub fn current_psd(&self, rising: bool) -> f64 {
+        self.i_psd[if rising { 0 } else { 1 }]
+    }
+
+    /// RMS threshold error at a decision that ends a rising or a falling ramp: comparator
+    /// noise over its bandwidth and the reference noise, uncorrelated, V.
+    pub fn sigma_threshold(&self, rising: bool) -> f64 {
+        self.v_var[if rising { 0 } else { 1 }].sqrt()
     }
 
     pub fn is_silent(&self) -> bool {
-        self.i_noise == 0.0 && self.sigma_threshold() == 0.0
+        self.i_psd.iter().chain(&self.v_var).all(|x| *x == 0.0)
     }
 }
 

@@ -235,6 +235,12 @@ impl Osc {
         self.origin.corners()
     }
 
+    /// Temperature (°C) and supply (V) a corner fixes itself, if it does (a combined corner
+    /// such as a slow-hot-low one).
+    pub fn corner_point(&self, corner: &str) -> Option<(f64, f64)> {
+        self.origin.corner_point(corner)
+    }
+
     /// The same oscillator with some keys changed.
     pub fn with(&self, pairs: &[(String, f64)]) -> Result<Osc, String> {
         Osc::assemble(self.params.with(pairs)?, self.env.corner.clone(), self.origin.clone())

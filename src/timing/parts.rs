@@ -34,6 +34,11 @@ pub trait SourcePart: Send + Sync + Debug {
     fn nominal(&self, env: &Env) -> f64;
     /// The current when the node is at `v_node`, A.
     fn at(&self, v_node: f64, env: &Env) -> f64;
+    /// One-sided white noise density of the current from the source's own devices, A²/Hz
+    /// (0 for a source given by numbers, whose noise is the `i_noise` key).
+    fn noise_psd(&self) -> f64 {
+        0.0
+    }
 }
 
 /// A comparator (or trigger, or inverter) reading the node.
@@ -44,6 +49,11 @@ pub trait ComparatorPart: Send + Sync + Debug {
     fn input_cap(&self, v_cm: f64, env: &Env) -> f64;
     /// Delay from the threshold crossing to the output edge for a ramp of `slope` V/s.
     fn delay(&self, slope: f64, env: &Env) -> f64;
+    /// Variance of the input-referred noise at a decision from the comparator's own devices, V²
+    /// (0 when given by numbers, whose noise is the `vn_cmp` key).
+    fn noise_var(&self) -> f64 {
+        0.0
+    }
 }
 
 /// The parts of one oscillator.
@@ -158,6 +168,9 @@ impl ComparatorPart for Comparator {
     fn delay(&self, slope: f64, _env: &Env) -> f64 {
         self.delay_ramp(slope.abs())
     }
+    fn noise_var(&self) -> f64 {
+        self.threshold_noise_var()
+    }
 }
 
 /// Process switches on the node (each in its off state: junction and overlap capacitance).
@@ -184,6 +197,9 @@ impl SourcePart for MirrorSource {
     }
     fn at(&self, v_node: f64, _env: &Env) -> f64 {
         self.mirror.i_out(v_node) * self.nominal / (self.mirror.i_ref * self.mirror.ratio)
+    }
+    fn noise_psd(&self) -> f64 {
+        self.mirror.noise_psd()
     }
 }
 

@@ -117,3 +117,49 @@ fn device_level_noise_does_not_beat_the_navid_lee_dutton_bound() {
     let bound = m["fom_bound"].as_float().unwrap();
     assert!(fom.as_slice().iter().all(|f| *f <= bound), "{fom:?} vs {bound}");
 }
+
+#[test]
+fn a_process_mirror_has_the_thermal_noise_of_its_two_devices() {
+    // Hand computation: 4kTγ·(gm_out + ratio²·gm_in) (Razavi, Design of Analog CMOS ICs, §7.3;
+    // γ = 2/3 for a long channel in saturation), with k from CODATA 2018, T = 300.15 K, and
+    // each device's gm taken at the Vgs that carries its current (solved here independently of
+    // the mirror's own bias).
+    use tickwork::physics::mirror::{Mirror, MirrorKind};
+    use tickwork::physics::mosfet::{Mos, MosType};
+    use tickwork::physics::process::Process;
+    let p = Process::demo180();
+    for (t, ratio) in [(MosType::N, 1.0), (MosType::P, 1.0), (MosType::N, 2.0)] {
+        let i = 1e-6;
+        let m = Mirror::from_process(&p, MirrorKind::Simple, t, i, ratio, 4e-6, 2e-6, 0.0).unwrap();
+        let unit = Mos::from_process(&p, t, 4e-6, 2e-6).unwrap();
+        let vgs = unit.diode_vgs(i, 27.0).unwrap();
+        let gm_in = unit.gm(vgs, vgs, 27.0);
+        let gm_out = Mos::from_process(&p, t, 4e-6 * ratio, 2e-6).unwrap().gm(vgs, vgs, 27.0);
+        let want = 4.0 * 1.380649e-23 * 300.15 * (2.0 / 3.0) * (gm_out + ratio * ratio * gm_in);
+        let got = m.noise_psd();
+        assert!((got / want - 1.0).abs() < 1e-6, "{t:?} ×{ratio}: {got:e} vs hand {want:e} A²/Hz");
+    }
+    // A behavioural mirror has no devices, so no device noise.
+    assert_eq!(Mirror::explicit(1e-6, 1e9, 0.2, 0.0).unwrap().noise_psd(), 0.0);
+}
+
+#[test]
+fn an_oscillator_from_a_process_takes_its_noise_from_its_devices() {
+    // osc_from without noise keys: the mirrors' and input pairs' thermal noise; a key given
+    // replaces the devices' value for that source.
+    let base = r#"let p = process("demo180");
+        let o = osc_from(p, "window", #{c: 1p, i: 1u, v_lo: 0.6, v_hi: 1.2});"#;
+    let dev = eval(&format!("{base} let j = o.jitter(); [j.from_devices, j.sigma_period, j.contributions.current, j.contributions.threshold]")).unwrap();
+    let dev = dev.cast::<rhai::Array>();
+    assert!(dev[0].as_bool().unwrap());
+    let (sp, si, sv) = (dev[1].as_float().unwrap(), dev[2].as_float().unwrap(), dev[3].as_float().unwrap());
+    assert!(si > 0.0 && sv > 0.0, "current {si:e}, threshold {sv:e}");
+    assert!(sp >= si.max(sv) && sp <= si + sv + 1e-30, "σ_T {sp:e} combines {si:e} and {sv:e}");
+    // Replacing both device sources by zero-valued keys leaves no noise at all.
+    let e = eval(&format!(
+        "{base} let q = osc_from(p, \"window\", #{{c: 1p, i: 1u, v_lo: 0.6, v_hi: 1.2, i_noise: 0, vn_cmp: 0}}); \
+         let r = \"no error\"; try {{ q.jitter(); }} catch (e) {{ r = `${{e}}`; }} r"
+    ))
+    .unwrap();
+    assert!(e.into_string().unwrap().contains("no noise source"));
+}

@@ -40,6 +40,7 @@ const INTERNAL: &[&str] = &[
     "panicked",
     "internal error",
     "RUST_BACKTRACE",
+    "tickwork::",
 ];
 
 /// The report a previous run left; a failed run must leave it as it was.

@@ -2,9 +2,11 @@
 //! the test build short on small machines. Each module is one area; every external check names
 //! its source beside it.
 mod analysis_fit;
+mod analysis_grid;
 mod analysis_noise;
 mod architecture;
 mod bad_input;
+mod cli_streams;
 mod cli_util;
 mod docs_coverage;
 mod engine_errors;

@@ -100,7 +100,7 @@ fn included_files_list_data_read_through_the_session() {
     let sandbox = Sandbox::new(dir.path(), &dir.path().join("out"), dir.path()).unwrap();
     let mut s = Session::new("t", sandbox);
     s.read_input("data/sim.csv").unwrap();
-    let files = tickwork::engine::report_api::included_files(&s, None);
+    let files = s.provenance().inputs;
     // FIPS 180-2, appendix B.1: SHA-256("abc").
     assert_eq!(
         files,

@@ -34,35 +34,32 @@ pub fn inverse_gaussian(mu: f64, lambda: f64, z: f64, u: f64) -> f64 {
 pub struct Draws {
     seed: u64,
     rng: ChaCha8Rng,
-    /// RMS threshold error per decision, V.
-    sigma_v: f64,
-    /// σ_q² = S_i/2 of the charge noise, C²/s.
-    var_q: f64,
+    /// RMS threshold error of a rising and of a falling decision, V.
+    sigma_v: [f64; 2],
+    /// σ_q² = S_i/2 of the charge noise per phase (by the direction of its ramp), C²/s.
+    var_q: Vec<f64>,
     /// Current into the watched node at its threshold, per phase (0 for a timed phase), A.
     current: Vec<f64>,
 }
 
 impl Draws {
     pub fn new(noise: &Noise, view: &View, c: &Circuit, seed: u64) -> Draws {
-        let current = c
+        let (current, var_q) = c
             .phases
             .iter()
             .map(|ph| match &ph.end {
                 End::Threshold { level, rising, .. } => {
-                    if *rising {
-                        view.i_ch(*level)
-                    } else {
-                        view.i_dis(*level)
-                    }
+                    let i = if *rising { view.i_ch(*level) } else { view.i_dis(*level) };
+                    (i, noise.current_psd(*rising) / 2.0)
                 }
-                End::Timed(_) => 0.0,
+                End::Timed(_) => (0.0, 0.0),
             })
-            .collect();
+            .unzip();
         Draws {
             seed,
             rng: ChaCha8Rng::seed_from_u64(seed),
-            sigma_v: noise.sigma_threshold(),
-            var_q: noise.i_noise * noise.i_noise / 2.0,
+            sigma_v: [noise.sigma_threshold(true), noise.sigma_threshold(false)],
+            var_q,
             current,
         }
     }
@@ -76,20 +73,22 @@ impl Draws {
 
     /// The threshold of one decision with its noise, moved in the ramp's direction.
     pub fn level(&mut self, level: f64, rising: bool) -> f64 {
-        if self.sigma_v == 0.0 {
+        let sigma = self.sigma_v[if rising { 0 } else { 1 }];
+        if sigma == 0.0 {
             return level;
         }
-        let e: f64 = self.rng.sample::<f64, _>(StandardNormal) * self.sigma_v;
+        let e: f64 = self.rng.sample::<f64, _>(StandardNormal) * sigma;
         if rising { level + e } else { level - e }
     }
 
     /// The ramp time of phase `k` with the current noise, for a noiseless ramp time `t_r`.
     pub fn ramp_time(&mut self, k: usize, t_r: f64) -> f64 {
         let i = self.current.get(k).copied().unwrap_or(0.0);
-        if self.var_q == 0.0 || t_r <= 0.0 || i <= 0.0 {
+        let var_q = self.var_q.get(k).copied().unwrap_or(0.0);
+        if var_q == 0.0 || t_r <= 0.0 || i <= 0.0 {
             return t_r;
         }
-        let lambda = i * i * t_r * t_r / self.var_q;
+        let lambda = i * i * t_r * t_r / var_q;
         let z: f64 = self.rng.sample(StandardNormal);
         let u: f64 = self.rng.random();
         inverse_gaussian(t_r, lambda, z, u)
