@@ -37,6 +37,10 @@ pub struct ReplArgs {
     /// Seed of every random stream
     #[arg(long, default_value_t = 1)]
     pub seed: u64,
+    /// Worker threads of Monte Carlo runs and sweeps (default: all cores); results are the
+    /// same for any count
+    #[arg(long, value_parser = clap::value_parser!(u64).range(1..=crate::analysis::parallel::MAX_THREADS as u64))]
+    pub threads: Option<u64>,
 }
 
 /// The evaluating half of the REPL, independent of where lines come from.
@@ -57,6 +61,7 @@ impl Evaluator {
         let sandbox = Sandbox::new(&a.root, &out, &a.root)?;
         let mut session = Session::new("repl", sandbox);
         session.seed = a.seed;
+        session.threads = a.threads.unwrap_or(0) as usize;
         let session = Shared::new(session);
         let engine = engine::build(&session, a.max_ops);
         Ok(Evaluator {

@@ -10,6 +10,7 @@ pub mod docs;
 pub mod errors;
 pub mod fit_api;
 pub mod grid_api;
+pub mod monte_carlo_api;
 pub mod physics_api;
 pub mod prepass;
 pub mod reference_api;
@@ -78,5 +79,6 @@ pub fn build(session: &Shared, max_ops: u64) -> Engine {
     analysis_api::register(&mut engine);
     grid_api::register(&mut engine);
     fit_api::register(&mut engine, session);
+    monte_carlo_api::register(&mut engine, session);
     engine
 }

@@ -593,12 +593,14 @@ pub fn register(engine: &mut Engine, session: &Shared) {
             Ok(transient_map(lift(simulate(o, cycles_arg(&cycles)?, &sim_options(&opts, seed)?))?))
         },
     );
+    let s = session.clone();
     api::fun(
         engine,
         "o.sweep(key: string, values: Series) -> Series",
-        "period with every parasitic for each value of one key, s",
-        |o: &mut Osc, key: &str, values: Series| -> R<Series> {
-            values.as_slice().iter().map(|x| lift(o.with(&[(key.to_string(), *x)]).and_then(|p| p.period()))).collect()
+        "period with every parasitic for each value of one key, s (evaluated in parallel on --threads)",
+        move |o: &mut Osc, key: &str, values: Series| -> R<Series> {
+            let threads = s.lock().threads;
+            Ok(Series::from(lift(crate::analysis::sweep::sweep(o, key, values.as_slice(), threads))?))
         },
     );
 }

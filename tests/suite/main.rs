@@ -3,6 +3,7 @@
 //! its source beside it.
 mod analysis_fit;
 mod analysis_grid;
+mod analysis_monte_carlo;
 mod analysis_noise;
 mod architecture;
 mod bad_input;
