@@ -24,6 +24,7 @@ pub mod session;
 pub mod stdlib;
 pub mod term;
 pub mod timing_api;
+pub mod trim_api;
 pub mod value;
 
 use rhai::Engine;
@@ -81,5 +82,6 @@ pub fn build(session: &Shared, max_ops: u64) -> Engine {
     grid_api::register(&mut engine);
     fit_api::register(&mut engine, session);
     monte_carlo_api::register(&mut engine, session);
+    trim_api::register(&mut engine);
     engine
 }
