@@ -1,16 +1,19 @@
 //! Analyses of an oscillator built on the timing layer: sensitivities, tempco and supply
-//! coefficient, the PVT grid, the key value for a target period, jitter and phase noise, and
-//! least-squares fits of data. Plain Rust; each
+//! coefficient, the PVT grid, the key value for a target period, jitter and phase noise, Monte
+//! Carlo and sweeps (through one parallel map), and least-squares fits of data. Plain Rust; each
 //! analysis calls the oscillator only through `Osc::with`, `at`, `period` and `cycle`.
+pub mod distribution;
 pub mod fit_curve;
 pub mod fit_linear;
 pub mod jitter;
+pub mod monte_carlo;
 pub mod parallel;
 pub mod phase_noise;
 pub mod pvt;
 pub mod sensitivity;
 pub mod solve;
 pub mod stats;
+pub mod sweep;
 pub mod tempco;
 pub mod trim;
 

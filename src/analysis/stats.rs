@@ -1,4 +1,5 @@
-//! Quantiles the analyses quote intervals with (Student's t, the standard normal), from statrs.
+//! Quantiles the analyses quote intervals with (Student's t, the standard normal), from statrs,
+//! and the Wilson score interval of a proportion.
 use statrs::distribution::{ContinuousCDF, Normal, StudentsT};
 
 /// Two-sided quantile of Student's t with `dof` degrees of freedom: t such that
@@ -14,6 +15,22 @@ pub fn t_two_sided(level: f64, dof: usize) -> Result<f64, String> {
 /// Two-sided quantile of the standard normal: z with P(|Z| ≤ z) = `level`.
 pub fn z_two_sided(level: f64) -> f64 {
     Normal::standard().inverse_cdf(0.5 + 0.5 * level)
+}
+
+/// Wilson score interval of a proportion with `k` successes in `n` trials at confidence
+/// `level`: (p̂ + z²/2n ± z·√(p̂(1−p̂)/n + z²/4n²)) / (1 + z²/n) (Wilson, JASA 22, 1927).
+/// (NaN, NaN) for n = 0.
+pub fn wilson(k: u64, n: u64, level: f64) -> (f64, f64) {
+    if n == 0 {
+        return (f64::NAN, f64::NAN);
+    }
+    let (nf, z) = (n as f64, z_two_sided(level));
+    let p = k as f64 / nf;
+    let z2n = z * z / nf;
+    let centre = (p + 0.5 * z2n) / (1.0 + z2n);
+    let half = z / (1.0 + z2n) * (p * (1.0 - p) / nf + z * z / (4.0 * nf * nf)).sqrt();
+    // At k = 0 or k = n one end is exactly 0 or 1; rounding must not move it past.
+    ((centre - half).max(0.0), (centre + half).min(1.0))
 }
 
 #[cfg(test)]

@@ -5,23 +5,6 @@ use std::path::Path;
 use crate::engine::docs;
 use crate::engine::term::err;
 
-/// Text describing `name` (all forms), or None if it is not a documented function.
-pub fn describe(name: &str) -> Option<String> {
-    let found = docs::lookup(name);
-    if found.is_empty() {
-        return None;
-    }
-    Some(found.iter().map(|d| format!("{}\n    {}", d.sig, d.summary)).collect::<Vec<_>>().join("\n"))
-}
-
-/// Names close to `name`, for a "did you mean" line.
-pub fn similar(name: &str) -> Vec<&'static str> {
-    let mut v: Vec<&'static str> =
-        docs::all().iter().map(|d| d.name.as_str()).filter(|n| n.contains(name) || name.contains(n)).collect();
-    v.dedup();
-    v
-}
-
 pub fn doc(name: Option<&str>, markdown: bool) -> i32 {
     if markdown {
         crate::engine::term::out(docs::markdown().trim_end());
@@ -34,17 +17,13 @@ pub fn doc(name: Option<&str>, markdown: bool) -> i32 {
             }
             0
         }
-        Some(n) => match describe(n) {
-            Some(t) => {
-                crate::engine::term::out(&t.to_string());
+        Some(n) => match docs::describe_or_hint(n) {
+            Ok(t) => {
+                crate::engine::term::out(&t);
                 0
             }
-            None => {
-                let sim = similar(n);
-                err(&format!(
-                    "no function named '{n}'{}",
-                    if sim.is_empty() { String::new() } else { format!("; similar: {}", sim.join(", ")) }
-                ));
+            Err(e) => {
+                err(&e);
                 super::EXIT_SCRIPT_ERROR
             }
         },

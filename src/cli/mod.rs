@@ -50,6 +50,12 @@ pub enum Cmd {
     },
 }
 
+/// `--seed N`: a whole number in 0..=2^64-1; a negative one is named as out of range, not
+/// taken for an option.
+pub fn parse_seed(s: &str) -> Result<u64, String> {
+    s.trim().parse::<u64>().map_err(|_| format!("the seed must be a whole number in 0..={}, got '{s}'", u64::MAX))
+}
+
 /// Dispatch a parsed command line; returns the process exit code.
 pub fn main(cli: Cli) -> i32 {
     match cli.cmd {

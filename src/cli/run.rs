@@ -40,7 +40,7 @@ pub struct RunArgs {
     #[arg(long = "set", value_name = "NAME=VALUE")]
     pub set: Vec<String>,
     /// Seed of every random stream (Monte Carlo)
-    #[arg(long, default_value_t = 1)]
+    #[arg(long, default_value_t = 1, allow_negative_numbers = true, value_parser = super::parse_seed)]
     pub seed: u64,
     /// Stop a script after this many operations (at least 1)
     #[arg(long, default_value_t = engine::DEFAULT_MAX_OPS, value_parser = clap::value_parser!(u64).range(1..))]
@@ -55,8 +55,9 @@ pub struct RunArgs {
     /// Append one JSON Lines record per script (metrics, specs, hashes, seed, git commit) to FILE
     #[arg(long, value_name = "FILE")]
     pub history: Option<PathBuf>,
-    /// Scripts run at the same time (default: one per core)
-    #[arg(long, value_parser = clap::value_parser!(u64).range(1..=256))]
+    /// Worker threads: scripts of a batch run at the same time, and Monte Carlo runs and sweeps
+    /// share them (default: one per core); results are the same for any count
+    #[arg(long, value_parser = clap::value_parser!(u64).range(1..=crate::analysis::parallel::MAX_THREADS as u64))]
     pub threads: Option<u64>,
 }
 
@@ -240,6 +241,7 @@ fn run_one(a: &RunArgs, job: &Job, sets: &BTreeMap<String, String>, echo: bool) 
     let mut session = Session::new(&name, sandbox);
     session.overrides = sets.clone();
     session.seed = a.seed;
+    session.threads = a.threads.unwrap_or(0) as usize;
     session.stamp = a.stamp;
     session.set_script(file, &shown, &text);
     done.prov.script = session.script.as_ref().map(|s| s.path.clone());

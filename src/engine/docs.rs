@@ -131,3 +131,79 @@ pub fn definitions() -> String {
     }
     s
 }
+
+/// Text describing `name` (all forms), or None if it is not a documented function. A method
+/// may be asked for with its receiver (`o.period`): then only method forms are shown.
+pub fn describe(name: &str) -> Option<String> {
+    let (method, short) = match name.rsplit_once('.') {
+        Some((_, m)) => (true, m),
+        None => (false, name),
+    };
+    let found: Vec<&Doc> = lookup(short).into_iter().filter(|d| !method || is_method(d)).collect();
+    if found.is_empty() {
+        return None;
+    }
+    Some(found.iter().map(|d| format!("{}\n    {}", d.sig, d.summary)).collect::<Vec<_>>().join("\n"))
+}
+
+/// `help NAME`: the description, or an error naming the closest functions.
+pub fn describe_or_hint(name: &str) -> Result<String, String> {
+    describe(name).ok_or_else(|| {
+        let short = name.rsplit_once('.').map_or(name, |(_, m)| m);
+        let near = similar(short);
+        let hint = if near.is_empty() { String::new() } else { format!("; similar: {}", near.join(", ")) };
+        format!("no function named '{name}'{hint}")
+    })
+}
+
+/// A form called as `x.f(...)`.
+fn is_method(d: &Doc) -> bool {
+    d.sig.split('(').next().is_some_and(|c| c.contains('.'))
+}
+
+/// Names of the methods whose receiver is the script type `ty` (`Mos`, `Series`, …).
+pub fn methods_of(ty: &str) -> Vec<String> {
+    all()
+        .iter()
+        .filter(|d| is_method(d) && d.params.first().is_some_and(|p| p.1 == ty))
+        .map(|d| d.name.clone())
+        .collect()
+}
+
+/// Documented names close to `name`, for "did you mean" hints: a likely typo, or a name that
+/// contains it (or is contained in it) when both are longer than two letters, so that a one-
+/// or two-letter word does not match half the reference.
+pub fn similar(name: &str) -> Vec<&'static str> {
+    let mut v: Vec<&'static str> = all()
+        .iter()
+        .map(|d| d.name.as_str())
+        .filter(|n| n.len() > 2 && ((name.len() > 2 && (n.contains(name) || name.contains(n))) || close_name(n, name)))
+        .collect();
+    v.sort();
+    v.dedup();
+    v
+}
+
+/// A likely typo: one edit away, or two letters swapped.
+fn close_name(a: &str, b: &str) -> bool {
+    let sorted = |s: &str| {
+        let mut v: Vec<char> = s.chars().collect();
+        v.sort();
+        v
+    };
+    edit_distance(a, b) <= 1 || (a.len() == b.len() && sorted(a) == sorted(b) && edit_distance(a, b) <= 2)
+}
+
+/// Levenshtein distance (common practice), for "similar names" hints.
+fn edit_distance(a: &str, b: &str) -> usize {
+    let b: Vec<char> = b.chars().collect();
+    let mut prev: Vec<usize> = (0..=b.len()).collect();
+    for (i, ca) in a.chars().enumerate() {
+        let mut cur = vec![i + 1];
+        for (j, cb) in b.iter().enumerate() {
+            cur.push((prev[j] + usize::from(ca != *cb)).min(prev[j + 1] + 1).min(cur[j] + 1));
+        }
+        prev = cur;
+    }
+    prev[b.len()]
+}

@@ -1,7 +1,7 @@
 //! Script errors as `file:line:col: message`, with the offending source line and a caret.
 use std::collections::HashMap;
 
-use rhai::{EvalAltResult, ParseError, Position};
+use rhai::{EvalAltResult, ParseError, ParseErrorType, Position};
 
 use super::prepass::PrepassError;
 use super::session::Sources;
@@ -64,7 +64,14 @@ pub fn from_prepass(sources: &Sources, file: &str, e: &PrepassError) -> ScriptEr
 }
 
 pub fn from_parse(sources: &Sources, file: &str, e: &ParseError) -> ScriptError {
-    located(sources, file, e.position(), format!("syntax error: {}", e.err_type()))
+    let message = match e.err_type() {
+        // Not a syntax error: the name is not defined (variables are checked at compile time).
+        ParseErrorType::VariableUndefined(name) => {
+            format!("undefined name '{name}': no variable or constant of that name is defined before this line")
+        }
+        other => format!("syntax error: {other}"),
+    };
+    located(sources, file, e.position(), message)
 }
 
 /// The innermost located error of an evaluation failure, with the call chain as context.
@@ -226,42 +233,7 @@ fn not_found(sig: &str) -> String {
         let sigs: Vec<&str> = forms.iter().map(|d| d.sig.as_str()).collect();
         return format!("{short}({args}) matches none of its forms: {}", sigs.join("; "));
     }
-    let near: Vec<&str> = {
-        let mut v: Vec<&str> = super::docs::all()
-            .iter()
-            .map(|d| d.name.as_str())
-            .filter(|n| {
-                n.len() > 2 && ((short.len() > 2 && (n.contains(short) || short.contains(n))) || close_name(n, short))
-            })
-            .collect();
-        v.sort();
-        v.dedup();
-        v
-    };
+    let near = super::docs::similar(short);
     let hint = if near.is_empty() { String::new() } else { format!("; similar names: {}", near.join(", ")) };
     format!("no function '{short}' takes ({args}){hint}")
-}
-
-/// A likely typo: one edit away, or two letters swapped.
-fn close_name(a: &str, b: &str) -> bool {
-    let sorted = |s: &str| {
-        let mut v: Vec<char> = s.chars().collect();
-        v.sort();
-        v
-    };
-    edit_distance(a, b) <= 1 || (a.len() == b.len() && sorted(a) == sorted(b) && edit_distance(a, b) <= 2)
-}
-
-/// Levenshtein distance (common practice), for "similar names" hints.
-fn edit_distance(a: &str, b: &str) -> usize {
-    let b: Vec<char> = b.chars().collect();
-    let mut prev: Vec<usize> = (0..=b.len()).collect();
-    for (i, ca) in a.chars().enumerate() {
-        let mut cur = vec![i + 1];
-        for (j, cb) in b.iter().enumerate() {
-            cur.push((prev[j] + usize::from(ca != *cb)).min(prev[j + 1] + 1).min(cur[j] + 1));
-        }
-        prev = cur;
-    }
-    prev[b.len()]
 }

@@ -11,7 +11,7 @@ use crate::num::Series;
 use crate::timing::Osc;
 
 /// Numbers of an option: a Series, an array of numbers or one number.
-fn numbers(what: &str, key: &str, v: &Dynamic) -> R<Vec<f64>> {
+pub(crate) fn numbers(what: &str, key: &str, v: &Dynamic) -> R<Vec<f64>> {
     let xs = if let Some(s) = v.clone().try_cast::<Series>() {
         s.to_vec()
     } else if let Some(a) = v.clone().try_cast::<Array>() {

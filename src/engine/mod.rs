@@ -10,9 +10,11 @@ pub mod docs;
 pub mod errors;
 pub mod fit_api;
 pub mod grid_api;
+pub mod monte_carlo_api;
 pub mod physics_api;
 pub mod prepass;
 pub mod reference_api;
+pub mod repl_session;
 pub mod report_api;
 pub mod resolver;
 pub mod sandbox;
@@ -22,6 +24,7 @@ pub mod session;
 pub mod stdlib;
 pub mod term;
 pub mod timing_api;
+pub mod trim_api;
 pub mod value;
 
 use rhai::Engine;
@@ -78,5 +81,7 @@ pub fn build(session: &Shared, max_ops: u64) -> Engine {
     analysis_api::register(&mut engine);
     grid_api::register(&mut engine);
     fit_api::register(&mut engine, session);
+    monte_carlo_api::register(&mut engine, session);
+    trim_api::register(&mut engine);
     engine
 }

@@ -89,6 +89,8 @@ pub const OVERRIDE_FN: &str = "__override";
 /// Run the pre-pass. `section_base` numbers the first prose block (the REPL keeps counting
 /// across entries); `None` (modules) blanks prose without section markers.
 pub fn prepare(src: &str, section_base: Option<usize>) -> Result<Prepared, PrepassError> {
+    // A UTF-8 byte-order mark, as some editors write one, is not part of the script.
+    let src = src.strip_prefix('\u{feff}').unwrap_or(src);
     let lines: Vec<&str> = src.split('\n').collect();
     let prose_kind = classify_prose_lines(&lines);
     let mut out = Prepared::default();

@@ -48,6 +48,10 @@ fn as_series(v: &Dynamic) -> Option<Result<Series, String>> {
     if let Some(s) = v.clone().try_cast::<Series>() {
         return Some(Ok(s));
     }
+    // A Monte Carlo run stands for its periods (a histogram of mc is the period histogram).
+    if let Some(mc) = v.clone().try_cast::<crate::analysis::monte_carlo::MonteCarlo>() {
+        return Some(Ok(Series::from(mc.period)));
+    }
     let a = v.clone().try_cast::<Array>()?;
     Some(
         a.iter()
@@ -145,8 +149,8 @@ pub fn register(engine: &mut Engine, shared: &Shared) {
     let s = shared.clone();
     api::fun(
         engine,
-        "table(data: map of Series/arrays | array of maps)",
-        "a Markdown table; columns of a map come in name order, rows of an array of maps are its elements",
+        "table(data: map of Series/arrays | array of maps | MonteCarlo)",
+        "a Markdown table; columns of a map come in name order, rows of an array of maps are its elements; a MonteCarlo gives the table of what it drew for which device (mc.drawn())",
         move |data: Dynamic| -> R<()> { table(&s, &data, &Map::new()) },
     );
     let s = shared.clone();
@@ -161,7 +165,7 @@ pub fn register(engine: &mut Engine, shared: &Shared) {
     api::fun(
         engine,
         "plot(#{title, x, y, kind, names, x_label, y_label, x_unit, y_unit, log_x, log_y, x_min, x_max, y_min, y_max, y2, y2_label, y2_unit, x_lines, y_lines, band, events, bins, stats, labels, waterfall, total_label}) -> string",
-        "an SVG chart beside the report (fig-NN-<title>.svg), linked from it; kinds line (default), scatter, step, histogram (samples in x; bins; stats: true marks mean and ±σ and gives them in the legend), bar (labels + y; waterfall: true stacks them and adds a total); y may be an array of Series with names for the legend (y first, then y2); units go in x_unit/y_unit (ticks get SI prefixes); x_min..y_max: axis limits (data beyond are clipped); y2: Series on a right-hand axis (y2_label, y2_unit); x_lines, y_lines: labelled reference lines (a number, an array of numbers or #{at, label}, or a map label: value); band: a shaded y window #{min, max, label} (either end may be left out) or an array of them; events: markers, the events map of simulate (t, v, what) or times; every value must be finite; returns the file name",
+        "an SVG chart beside the report (fig-NN-<title>.svg), linked from it; kinds line (default), scatter, step, histogram (samples in x, or a MonteCarlo for its periods; bins; stats: true marks mean and ±σ and gives them in the legend), bar (labels + y; waterfall: true stacks them and adds a total); y may be an array of Series with names for the legend (y first, then y2); units go in x_unit/y_unit (ticks get SI prefixes); x_min..y_max: axis limits (data beyond are clipped); y2: Series on a right-hand axis (y2_label, y2_unit); x_lines, y_lines: labelled reference lines (a number, an array of numbers or #{at, label}, or a map label: value); band: a shaded y window #{min, max, label} (either end may be left out) or an array of them; events: markers, the events map of simulate (t, v, what) or times; every value must be finite; returns the file name",
         move |m: Map| -> R<String> { plot_fn(&s, &m) },
     );
 
@@ -269,6 +273,17 @@ fn table(s: &Shared, data: &Dynamic, opts: &Map) -> R<()> {
     };
     // Columns by name, in name order (a script map is sorted by key) or as the rows give them.
     let mut cols: Vec<(String, Vec<Cell>)> = Vec::new();
+    // A Monte Carlo run is shown as the table of what it drew, in the order of DRAWN_COLUMNS.
+    let mut data = data.clone();
+    let mut opts = opts.clone();
+    if let Some(mc) = data.clone().try_cast::<crate::analysis::monte_carlo::MonteCarlo>() {
+        data = Dynamic::from_array(super::monte_carlo_api::drawn_rows(&mc));
+        if !opts.contains_key("columns") {
+            let order = super::monte_carlo_api::DRAWN_COLUMNS.iter().map(|c| Dynamic::from(c.to_string())).collect();
+            opts.insert("columns".into(), Dynamic::from_array(order));
+        }
+    }
+    let (data, opts) = (&data, &opts);
     if let Some(m) = data.clone().try_cast::<Map>() {
         for (k, v) in &m {
             cols.push((k.to_string(), cells(k, v)?));

@@ -33,6 +33,8 @@ pub struct Session {
     /// Which overrides the script has consumed.
     pub used: BTreeSet<String>,
     pub seed: u64,
+    /// Worker threads of the parallel analyses (Monte Carlo, sweeps); 0 means all cores.
+    pub threads: usize,
     /// Print results to the terminal as they are shown.
     pub echo: bool,
     pub sandbox: Sandbox,
@@ -54,6 +56,7 @@ impl Session {
             overrides: BTreeMap::new(),
             used: BTreeSet::new(),
             seed: 0,
+            threads: 0,
             echo: true,
             sandbox,
             sources: Sources::default(),

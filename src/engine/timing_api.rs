@@ -9,10 +9,12 @@ use super::value::to_f64;
 use crate::num::Series;
 use crate::num::si::eng;
 use crate::physics::mirror::MirrorKind;
+use crate::physics::mosfet::MosType;
 use crate::physics::process::Process;
 use crate::timing::budget::budget;
-use crate::timing::from_process::{Choices, osc_from_with};
+use crate::timing::from_process::{Choices, osc_from_refs};
 use crate::timing::keys::{Dflt, Kind, Mode, def};
+use crate::timing::process_refs::{CurrentChoice, ThresholdChoice};
 use crate::timing::reference::Reference;
 use crate::timing::transient::{
     MAX_CYCLES, MAX_POINTS_PER_PHASE, Options, RTOL, RTOL_RANGE, SETTLE_RTOL, Transient, simulate,
@@ -273,6 +275,12 @@ fn describe(o: &Osc) -> String {
             }
         })
         .collect();
+    let mut given = given;
+    for (k, n) in &o.refs.names {
+        if o.params.reference(k).is_none() {
+            given.push(format!("{k} from {n}"));
+        }
+    }
     format!(
         "{} oscillator ({}; {} °C, {} V, {}): {}",
         o.kind().name(),
@@ -300,6 +308,92 @@ fn key_help(k: Kind, mode: Mode) -> Array {
         .collect()
 }
 
+/// A choice map of `osc_from`: a name alone, or `#{kind: name, ...}`; the kind and the
+/// remaining map, every key of it checked against `known`.
+fn choice(what: &str, key: &str, v: Dynamic, known: &[&str]) -> R<(String, Map)> {
+    if let Ok(s) = v.clone().into_string() {
+        return Ok((s, Map::new()));
+    }
+    let Some(mut m) = v.clone().try_cast::<Map>() else {
+        return Err(
+            format!("{what}: key '{key}' must be a name or a map #{{kind: ...}}, found {}", v.type_name()).into()
+        );
+    };
+    let kind = match m.remove("kind") {
+        Some(k) => k.into_string().map_err(|t| format!("{what}: {key}: 'kind' must be a string, found {t}"))?,
+        None => return Err(format!("{what}: {key}: 'kind' is required").into()),
+    };
+    for k in m.keys() {
+        if !known.contains(&k.as_str()) {
+            return Err(format!("{what}: {key}: unknown key '{k}'; known keys: kind, {}", known.join(", ")).into());
+        }
+    }
+    Ok((kind, m))
+}
+
+fn current_choice(what: &str, v: Dynamic, res_default: &str) -> R<CurrentChoice> {
+    let (kind, m) = choice(what, "reference", v, &["res_type", "ptat", "k"])?;
+    let res_type = match m.get("res_type") {
+        Some(r) => {
+            r.clone().into_string().map_err(|t| format!("{what}: reference: 'res_type' must be a string, found {t}"))?
+        }
+        None => res_default.to_string(),
+    };
+    let num = |k: &str, d: f64| -> R<f64> {
+        m.get(k).map_or(Ok(d), |x| to_f64(x).map_err(|_| format!("{what}: reference: '{k}' must be a number").into()))
+    };
+    Ok(match kind.as_str() {
+        "ptat" => CurrentChoice::Ptat { res_type },
+        "ctat" => CurrentChoice::Ctat { res_type },
+        "mix" => {
+            let f = num("ptat", 0.5)?;
+            if !(0.0..=1.0).contains(&f) {
+                return Err(
+                    format!("{what}: reference: 'ptat' (the PTAT fraction at 27 °C) must be in 0…1, got {f}").into()
+                );
+            }
+            CurrentChoice::Mix { ptat: f, res_type }
+        }
+        "constant_gm" => CurrentChoice::ConstantGm { res_type, k: num("k", 4.0)? },
+        other => {
+            return Err(
+                format!("{what}: reference: unknown kind '{other}'; kinds: ptat, ctat, mix, constant_gm").into()
+            );
+        }
+    })
+}
+
+fn threshold_choice(what: &str, v: Dynamic) -> R<ThresholdChoice> {
+    let (kind, m) = choice(what, "thresholds", v, &["tc", "psrr", "device"])?;
+    let num = |k: &str, d: f64| -> R<f64> {
+        m.get(k).map_or(Ok(d), |x| to_f64(x).map_err(|_| format!("{what}: thresholds: '{k}' must be a number").into()))
+    };
+    Ok(match kind.as_str() {
+        "ladder" => ThresholdChoice::Ladder,
+        "bandgap" => {
+            let (tc, psrr) = (num("tc", 0.0)?, num("psrr", f64::INFINITY)?);
+            if tc.is_nan() || tc.abs() > 0.01 || psrr.is_nan() || psrr < 0.0 {
+                return Err(format!(
+                    "{what}: thresholds: tc must be in −0.01…0.01 /K and psrr ≥ 0 dB, got {tc}, {psrr}"
+                )
+                .into());
+            }
+            ThresholdChoice::Bandgap { tc, psrr }
+        }
+        "vt" => {
+            let d = match m.get("device") {
+                Some(x) => x
+                    .clone()
+                    .into_string()
+                    .map_err(|t| format!("{what}: thresholds: 'device' must be a string, found {t}"))?,
+                None => "nmos".into(),
+            };
+            ThresholdChoice::Vt { device: lift(MosType::parse(&d).map_err(|e| format!("{what}: thresholds: {e}")))? }
+        }
+        other => return Err(format!("{what}: thresholds: unknown kind '{other}'; kinds: ladder, bandgap, vt").into()),
+    })
+}
+
 /// `osc_from`: the name keys (cap_type, mirror) taken out, the rest numbers.
 fn from_process(pr: &Process, k: &str, mut m: Map) -> R<Osc> {
     let kind = kind(k)?;
@@ -314,8 +408,16 @@ fn from_process(pr: &Process, k: &str, mut m: Map) -> R<Osc> {
     let mirror =
         lift(MirrorKind::parse(&name("mirror", "cascode")?).map_err(|e| format!("{what}: key 'mirror': {e}")))?;
     let res_type = name("res_type", "rpoly")?;
+    let current = match m.remove("reference") {
+        None => None,
+        Some(v) => Some(current_choice(&what, v, &res_type)?),
+    };
+    let thresholds = match m.remove("thresholds") {
+        None => None,
+        Some(v) => Some(threshold_choice(&what, v)?),
+    };
     let (nums, refs) = values(&what, &m)?;
-    lift(osc_from_with(pr, kind, Choices { cap_type, mirror, res_type }, &nums, &refs))
+    lift(osc_from_refs(pr, kind, Choices { cap_type, mirror, res_type }, &nums, &refs, current, thresholds))
 }
 
 pub fn register(engine: &mut Engine, session: &Shared) {
@@ -357,13 +459,13 @@ pub fn register(engine: &mut Engine, session: &Shared) {
     api::fun(
         engine,
         "osc_from(process: Process|string, kind: string, params: map) -> Oscillator",
-        "an oscillator whose parts are devices of a process (a process object, or a built-in name such as \"demo180\"): mirrors, switches, input-pair comparators, process capacitor; device sizes mirror_w, mirror_l, sw_w, sw_l, cmp_w, cmp_l (m), cmp_itail (A), cmp_cload (F); inverter sizes inv_wn, inv_wp, inv_l (m); names cap_type (default \"mim\"), res_type (default \"rpoly\") and mirror (\"simple\", \"cascode\", \"wide-swing\"; default \"cascode\"); osc_keys(kind, \"process\") lists the keys",
+        "an oscillator whose parts are devices of a process (a process object, or a built-in name such as \"demo180\"): mirrors, switches, input-pair comparators, process capacitor; device sizes mirror_w, mirror_l, sw_w, sw_l, cmp_w, cmp_l (m), cmp_itail (A), cmp_cload (F); inverter sizes inv_wn, inv_wp, inv_l (m); names cap_type (default \"mim\"), res_type (default \"rpoly\") and mirror (\"simple\", \"cascode\", \"wide-swing\"; default \"cascode\"); reference: \"ptat\", \"ctat\" or #{kind: \"mix\", ptat: fraction} or #{kind: \"constant_gm\", k} (on res_type) moves i as that reference of the process's devices; thresholds: \"ladder\", \"bandgap\" (#{tc, psrr}) or #{kind: \"vt\", device} moves v_lo, v_hi; osc_keys(kind, \"process\") lists the keys",
         |pr: Process, k: &str, m: Map| -> R<Osc> { from_process(&pr, k, m) },
     );
     api::fun(
         engine,
         "osc_from(process: Process|string, kind: string, params: map) -> Oscillator",
-        "an oscillator whose parts are devices of a process (a process object, or a built-in name such as \"demo180\"): mirrors, switches, input-pair comparators, process capacitor; device sizes mirror_w, mirror_l, sw_w, sw_l, cmp_w, cmp_l (m), cmp_itail (A), cmp_cload (F); inverter sizes inv_wn, inv_wp, inv_l (m); names cap_type (default \"mim\"), res_type (default \"rpoly\") and mirror (\"simple\", \"cascode\", \"wide-swing\"; default \"cascode\"); osc_keys(kind, \"process\") lists the keys",
+        "an oscillator whose parts are devices of a process (a process object, or a built-in name such as \"demo180\"): mirrors, switches, input-pair comparators, process capacitor; device sizes mirror_w, mirror_l, sw_w, sw_l, cmp_w, cmp_l (m), cmp_itail (A), cmp_cload (F); inverter sizes inv_wn, inv_wp, inv_l (m); names cap_type (default \"mim\"), res_type (default \"rpoly\") and mirror (\"simple\", \"cascode\", \"wide-swing\"; default \"cascode\"); reference: \"ptat\", \"ctat\" or #{kind: \"mix\", ptat: fraction} or #{kind: \"constant_gm\", k} (on res_type) moves i as that reference of the process's devices; thresholds: \"ladder\", \"bandgap\" (#{tc, psrr}) or #{kind: \"vt\", device} moves v_lo, v_hi; osc_keys(kind, \"process\") lists the keys",
         |name: &str, k: &str, m: Map| -> R<Osc> { from_process(&lift(Process::builtin(name))?, k, m) },
     );
     api::fun(
@@ -471,7 +573,7 @@ pub fn register(engine: &mut Engine, session: &Shared) {
         engine,
         "o.simulate(cycles: int) -> map",
         &format!(
-            "behavioural transient run of 1..={MAX_CYCLES} cycles with every parasitic, from a defined start (window, schmitt: node at the low threshold; reset, pingpong: capacitors at the reset level; rc-inverter: capacitor discharged, X = vdd): t (s) and v (V; v2 = capacitor B for pingpong) Series of the waveform, names (the nodes), events #{{t (s), v (V), what (\"crossing\", \"decision\", \"switch\"), phase, label}}, periods and duties (one per cycle), period (s) and duty of the steady state (mean of the last quarter of the cycles), frequency (Hz), settle_cycles (cycles more than {SETTLE_RTOL:e} off the steady period), v_min, v_max (V), steps"
+            "behavioural transient run of 1..={MAX_CYCLES} cycles with every parasitic, from a defined start (window, schmitt: node at the low threshold; reset, pingpong: capacitors at the reset level; rc-inverter: capacitor discharged, X = vdd): t (s) and v (V; v2 = capacitor B for pingpong) Series of the waveform, names (the nodes), events (a map of parallel arrays, one element per event, so each goes straight to table or plot: #{{t (s), v (V), what (\"crossing\", \"decision\", \"switch\"), phase, label}}; event k is events.t[k], events.what[k], …), periods and duties (one per cycle), period (s) and duty of the steady state (mean of the last quarter of the cycles), frequency (Hz), settle_cycles (cycles more than {SETTLE_RTOL:e} off the steady period), v_min, v_max (V), steps"
         ),
         |o: &mut Osc, cycles: Dynamic| -> R<Map> {
             Ok(transient_map(lift(simulate(o, cycles_arg(&cycles)?, &Options::default()))?))
@@ -491,12 +593,14 @@ pub fn register(engine: &mut Engine, session: &Shared) {
             Ok(transient_map(lift(simulate(o, cycles_arg(&cycles)?, &sim_options(&opts, seed)?))?))
         },
     );
+    let s = session.clone();
     api::fun(
         engine,
         "o.sweep(key: string, values: Series) -> Series",
-        "period with every parasitic for each value of one key, s",
-        |o: &mut Osc, key: &str, values: Series| -> R<Series> {
-            values.as_slice().iter().map(|x| lift(o.with(&[(key.to_string(), *x)]).and_then(|p| p.period()))).collect()
+        "period with every parasitic for each value of one key, s (evaluated in parallel on --threads)",
+        move |o: &mut Osc, key: &str, values: Series| -> R<Series> {
+            let threads = s.lock().threads;
+            Ok(Series::from(lift(crate::analysis::sweep::sweep(o, key, values.as_slice(), threads))?))
         },
     );
 }

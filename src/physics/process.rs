@@ -105,6 +105,8 @@ pub struct Process {
     pub resistors: BTreeMap<String, ResLayer>,
     pub capacitors: BTreeMap<String, CapType>,
     pub corners: BTreeMap<String, Corner>,
+    /// The parasitic vertical bipolar (section `[bipolar]`), if the file describes one.
+    pub bipolar: Option<super::reference::Bipolar>,
     /// Name of the applied corner ("" for the nominal parameters).
     pub corner: String,
     /// Factors applied by the corner to resistors and capacitors.
@@ -133,6 +135,8 @@ impl Process {
 
     /// Parse a process description; `file` names the source in error messages.
     pub fn from_toml(text: &str, file: &str) -> Result<Process, String> {
+        // A UTF-8 byte-order mark, as some editors write one, is not part of the file.
+        let text = text.strip_prefix('\u{feff}').unwrap_or(text);
         Self::parse_toml(text, file).map_err(|e| locate(text, file, &e))
     }
 
@@ -169,8 +173,13 @@ impl Process {
                 corners.insert(k.clone(), corner(as_table(v, &path, file)?, &path, file, vdd, tnom)?);
             }
         }
+        let bipolar = match top.opt_table("bipolar")? {
+            Some(t) => Some(bipolar(t, file, tnom)?),
+            None => None,
+        };
         top.finish()?;
         Ok(Process {
+            bipolar,
             name,
             note,
             tnom,
@@ -391,6 +400,20 @@ fn cap_type(t: &toml::Table, path: &str, file: &str) -> Result<CapType, String> 
     };
     r.finish()?;
     Ok(c)
+}
+
+fn bipolar(t: &toml::Table, file: &str, tnom: f64) -> Result<super::reference::Bipolar, String> {
+    let mut r = Reader::new(t, "bipolar", file);
+    let vbe_ref = r.num("vbe", 0.2, 1.0, "V")?;
+    let b = super::reference::Bipolar {
+        vbe_ref,
+        vg0: r.num("vg0", 0.9, 1.5, "V")?,
+        eta: r.num("eta", 0.0, 6.0, "")?,
+        t_ref: tnom,
+    };
+    r.finish()?;
+    b.check(&format!("{file}: bipolar"))?;
+    Ok(b)
 }
 
 fn corner(t: &toml::Table, path: &str, file: &str, vdd: f64, tnom: f64) -> Result<Corner, String> {

@@ -4,10 +4,13 @@
 //! uses is its own `Topology::process_parts`, built from the helpers of `Devices`.
 use std::sync::Arc;
 
+use super::env::Env;
 use super::keys::{Kind, Mode, Params};
+use super::osc::RefPoint;
 use super::osc::{Origin, Osc};
 use super::parasitic::Parasitic;
 use super::parts::{ComparatorPart, MirrorSource, Parts, SwitchSet};
+use super::process_refs::{CurrentChoice, ProcRefs, ThresholdChoice};
 use super::reference::Reference;
 use crate::physics::capacitor::Capacitor;
 use crate::physics::comparator::{Comparator, PairDesign};
@@ -32,6 +35,8 @@ const WIDE_SWING_MARGIN: f64 = 0.1;
 pub struct ProcessOrigin {
     pub process: Process,
     pub choices: Choices,
+    /// References made of the process's devices (`reference:`, `thresholds:` of osc_from).
+    pub refs: ProcRefs,
 }
 
 /// An oscillator of `kind` built from `process`; `pairs` as for `osc`, with device sizes.
@@ -48,6 +53,20 @@ pub fn osc_from_with(
     pairs: &[(String, f64)],
     refs: &[(String, Reference)],
 ) -> Result<Osc, String> {
+    osc_from_refs(process, kind, choices, pairs, refs, None, None)
+}
+
+/// As `osc_from_with`, with a current reference and a threshold generator made of the
+/// process's devices.
+pub fn osc_from_refs(
+    process: &Process,
+    kind: Kind,
+    choices: Choices,
+    pairs: &[(String, f64)],
+    refs: &[(String, Reference)],
+    current: Option<CurrentChoice>,
+    thresholds: Option<ThresholdChoice>,
+) -> Result<Osc, String> {
     process.capacitor(&choices.cap_type)?;
     kind.topology().check_choices(process, &choices)?;
     let mut pairs = pairs.to_vec();
@@ -57,7 +76,25 @@ pub fn osc_from_with(
     if !pairs.iter().any(|(k, _)| k == "temp") {
         pairs.push(("temp".into(), process.temp));
     }
-    Osc::from_origin_with(kind, &pairs, refs, Arc::new(ProcessOrigin { process: process.clone(), choices }))
+    let what = |e: String| format!("{}: {e}", kind.caller(Mode::Process));
+    if let Some(
+        CurrentChoice::Ptat { res_type }
+        | CurrentChoice::Ctat { res_type }
+        | CurrentChoice::Mix { res_type, .. }
+        | CurrentChoice::ConstantGm { res_type, .. },
+    ) = &current
+    {
+        process.resistor(res_type).map_err(what)?;
+    }
+    let vdd = pairs.iter().find(|(k, _)| k == "vdd").map_or(process.vdd, |(_, v)| *v);
+    // The nominal point is the process as given (a corner applied to it is its nominal).
+    let prefs = ProcRefs::pinned(current, thresholds, process, vdd).map_err(what)?;
+    Osc::from_origin_with(
+        kind,
+        &pairs,
+        refs,
+        Arc::new(ProcessOrigin { process: process.clone(), choices, refs: prefs }),
+    )
 }
 
 impl ProcessOrigin {
@@ -91,10 +128,30 @@ impl Origin for ProcessOrigin {
         (c.temp != self.process.tnom || c.vdd != self.process.vdd).then_some((c.temp, c.vdd))
     }
     fn inherent(&self, p: &Params) -> Vec<Parasitic> {
-        p.kind.topology().inherent(&self.process, &self.choices)
+        let mut v = p.kind.topology().inherent(&self.process, &self.choices);
+        if self.refs.current.is_some() {
+            v.push(Parasitic::CurrentRef);
+        }
+        if self.refs.thresholds.is_some() {
+            v.push(Parasitic::ThresholdRef);
+        }
+        v
+    }
+    fn references(&self, p: &Params, env: &Env) -> Result<RefPoint, String> {
+        let mut r = RefPoint::of_keys(p, env)?;
+        if self.refs.current.is_some() && p.reference("i").is_some() {
+            return Err("key 'i' holds a reference and 'reference' names another: give one of them".into());
+        }
+        if self.refs.thresholds.is_some() && (p.reference("v_lo").is_some() || p.reference("v_hi").is_some()) {
+            return Err("a threshold key holds a reference and 'thresholds' names another: give one of them".into());
+        }
+        let pr = self.at(p, &env.corner)?;
+        let key = |k: &str| if p.has(k) { p.get(k) } else { f64::NAN };
+        self.refs.apply(&mut r, &pr, env, key("v_lo"), key("v_hi"))?;
+        Ok(r)
     }
     fn on_process(&self, p: &Process) -> Result<Arc<dyn Origin>, String> {
-        Ok(Arc::new(ProcessOrigin { process: p.clone(), choices: self.choices.clone() }))
+        Ok(Arc::new(ProcessOrigin { process: p.clone(), choices: self.choices.clone(), refs: self.refs.clone() }))
     }
 
     fn build(&self, p: &Params, corner: &str) -> Result<Parts, String> {

@@ -15,6 +15,7 @@ pub mod noise;
 pub mod osc;
 pub mod parasitic;
 pub mod parts;
+pub mod process_refs;
 pub mod ramp;
 pub mod reference;
 pub mod thresholds;

@@ -53,6 +53,28 @@ fn no_layer_imports_a_layer_above_it() {
     assert!(bad.is_empty(), "upward imports:\n{}", bad.join("\n"));
 }
 
+/// A line that uses the scripting engine's crate.
+fn uses_rhai(line: &str) -> bool {
+    line.contains("use rhai") || line.contains("rhai::")
+}
+
+#[test]
+fn only_the_engine_uses_the_scripting_engine() {
+    let mut files = Vec::new();
+    sources(&src(), &mut files);
+    let engine = src().join("engine");
+    let mut bad = Vec::new();
+    for f in files.iter().filter(|f| !f.starts_with(&engine)) {
+        let text = std::fs::read_to_string(f).unwrap();
+        for (n, line) in code(&text) {
+            if uses_rhai(line) {
+                bad.push(format!("{}:{n}: {}", f.display(), line.trim()));
+            }
+        }
+    }
+    assert!(bad.is_empty(), "the scripting engine's types outside src/engine/:\n{}", bad.join("\n"));
+}
+
 #[test]
 fn every_module_opens_with_its_doc() {
     let mut files = Vec::new();
@@ -72,6 +94,8 @@ fn the_checks_see_a_violation() {
     let hits: Vec<_> = code(text).into_iter().filter(|(_, l)| l.contains("crate::engine")).collect();
     assert_eq!(hits, vec![(3, "use crate::engine::docs;")]);
     assert_eq!(layer_of(&src().join("timing").join("osc.rs")), Some("timing"));
+    assert!(uses_rhai("use rhai::{AST, Engine};") && uses_rhai("    let e: rhai::Engine = x;"));
+    assert!(!uses_rhai("use rustyline::Editor;"));
 }
 
 /// Platform maths calls (`x.exp()`, `x.ln()`, `x.powf(y)`, …) found in a code line.

@@ -35,7 +35,7 @@ fn error_inside_a_function_names_the_call() {
 #[test]
 fn undefined_variable_is_caught_before_running() {
     let e = run_err("print(\"first\");\nlet x = periodd * 2;\n");
-    assert!(e.starts_with("e.rhai:2:9: syntax error: Undefined variable: periodd"), "{e}");
+    assert!(e.starts_with("e.rhai:2:9: undefined name 'periodd'"), "{e}");
 }
 
 #[test]

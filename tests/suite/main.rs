@@ -3,7 +3,9 @@
 //! its source beside it.
 mod analysis_fit;
 mod analysis_grid;
+mod analysis_monte_carlo;
 mod analysis_noise;
+mod analysis_trim;
 mod architecture;
 mod bad_input;
 mod cli_streams;

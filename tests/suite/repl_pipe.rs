@@ -87,8 +87,52 @@ fn defs_writes_every_documented_and_registered_function() {
 #[test]
 fn a_trailing_semicolon_suppresses_the_value_and_floats_print_exactly() {
     let p = Project::new();
-    // Doubling is exact in binary, so 2·1.5e-6 is the double nearest 3e-6.
-    let o = p.repl("1 + 2;\n2 * 1.5u\n");
+    // Doubling is exact in binary, so 2·1.5e-6 is the double nearest 3e-6: engineering
+    // notation to read, and `full` gives the shortest text that reads back exactly.
+    let o = p.repl("1 + 2;\n2 * 1.5u\nfull\n");
     assert!(o.status.success(), "{}", stderr(&o));
-    assert_eq!(stdout(&o), "3e-6\n");
+    assert_eq!(stdout(&o), "3.000µ\n3e-6\n");
+}
+
+#[test]
+fn interrupt_cancels_the_running_entry_and_the_session_goes_on() {
+    // What Ctrl-C does while an entry runs: SIGINT to the process. The entry stops; variables
+    // from earlier entries and later entries work.
+    use std::io::{BufRead, BufReader, Write};
+    use std::process::{Command, Stdio};
+    let p = Project::new();
+    let mut child = Command::new(env!("CARGO_BIN_EXE_tickwork"))
+        .arg("repl")
+        .current_dir(p.path())
+        .stdin(Stdio::piped())
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped())
+        .spawn()
+        .unwrap();
+    let pid = child.id() as i32;
+    // A guard: a REPL that ignored the interrupt would run forever.
+    std::thread::spawn(move || {
+        std::thread::sleep(std::time::Duration::from_secs(60));
+        unsafe { libc::kill(pid, libc::SIGKILL) };
+    });
+    let mut stdin = child.stdin.take().unwrap();
+    stdin
+        .write_all(
+            b"let kept = 42;\nlet started = false; loop { if !started { print(\"started\"); started = true; } }\n",
+        )
+        .unwrap();
+    let mut out = BufReader::new(child.stdout.take().unwrap());
+    let mut line = String::new();
+    out.read_line(&mut line).unwrap();
+    assert_eq!(line, "started\n");
+    unsafe { libc::kill(pid, libc::SIGINT) };
+    stdin.write_all(b"kept + 1\n").unwrap();
+    drop(stdin);
+    let mut rest = String::new();
+    std::io::Read::read_to_string(&mut out, &mut rest).unwrap();
+    let o = child.wait_with_output().unwrap();
+    let err = String::from_utf8_lossy(&o.stderr);
+    assert_eq!(o.status.code(), Some(1), "{err}");
+    assert!(err.contains("repl[2]: entry cancelled"), "{err}");
+    assert_eq!(rest, "43\n");
 }

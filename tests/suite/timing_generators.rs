@@ -3,7 +3,11 @@
 //! transient agreeing with the period model with them on. Each check names its source.
 use crate::cli_util::{eval, eval_f64};
 use tickwork::physics::constants::thermal_voltage;
+use tickwork::physics::mirror::MirrorKind;
+use tickwork::physics::process::Process;
 use tickwork::physics::reference::{Bipolar, constant_gm_current, delta_vbe};
+use tickwork::timing::from_process::{Choices, osc_from_refs};
+use tickwork::timing::process_refs::{CurrentChoice, ThresholdChoice};
 use tickwork::timing::reference::Reference;
 use tickwork::timing::transient::{Options, simulate};
 use tickwork::timing::{Kind, Mask, Osc, Parasitic};
@@ -165,4 +169,49 @@ fn bad_references_are_named() {
     assert!(e.contains("must be below 'v_hi'"), "{e}");
     let e = eval("ptat(1u) + ladder(0.5)").unwrap_err();
     assert!(e.contains("only current references add up"), "{e}");
+}
+
+fn demo_refs(current: Option<CurrentChoice>, thresholds: Option<ThresholdChoice>) -> Osc {
+    let ch = Choices { cap_type: "mim".into(), mirror: MirrorKind::Cascode, res_type: "rpoly".into() };
+    let keys = pairs(&[("c", 250e-15), ("i", 1.2e-6), ("v_lo", 0.5), ("v_hi", 1.1)]);
+    osc_from_refs(&Process::demo180(), Kind::Window, ch, &keys, &[], current, thresholds)
+        .unwrap_or_else(|e| panic!("{e}"))
+}
+
+#[test]
+fn process_references_follow_their_devices() {
+    // ΔVbe/R on rpoly (demo180: tc1 = −1.2e-3 /K, tc2 = 1e-6 /K², invented): I ∝ T/R(T), so with
+    // only the reference on, T_period/T_ideal = (300.15/398.15)·R(125 °C)/R(27 °C) at 125 °C.
+    let o = demo_refs(Some(CurrentChoice::Ptat { res_type: "rpoly".into() }), None);
+    let h = o.at(Some(125.0), None, None).unwrap();
+    let r = 1.0 - 1.2e-3 * 98.0 + 1e-6 * 98.0 * 98.0;
+    close(
+        h.cycle(Mask::only(Parasitic::CurrentRef)).unwrap().period / h.ideal_period().unwrap(),
+        300.15 / 398.15 * r,
+        1e-10,
+    );
+    // The ss corner's resistor factor 1.15 lowers the current by 1/1.15.
+    let s = o.at(None, None, Some("ss")).unwrap();
+    close(s.cycle(Mask::only(Parasitic::CurrentRef)).unwrap().period / s.ideal_period().unwrap(), 1.15, 1e-10);
+    // A ladder from the supply: the window scales with vdd (charge balance).
+    let l = demo_refs(None, Some(ThresholdChoice::Ladder)).at(None, Some(2.0), None).unwrap();
+    close(l.cycle(Mask::only(Parasitic::ThresholdRef)).unwrap().period / l.ideal_period().unwrap(), 2.0 / 1.8, 1e-10);
+    // A first-order bandgap of the bipolar has zero slope at 27 °C: a small central difference
+    // of the thresholds' factor is second order.
+    let b = demo_refs(None, Some(ThresholdChoice::Bandgap { tc: 0.0, psrr: f64::INFINITY }));
+    let f = |t: f64| {
+        let o = b.at(Some(t), None, None).unwrap();
+        o.cycle(Mask::only(Parasitic::ThresholdRef)).unwrap().period / o.ideal_period().unwrap()
+    };
+    assert!(((f(28.0) - f(26.0)) / 2.0).abs() < 1e-6, "{}", f(28.0) - f(26.0));
+    // Every parasitic on: the transient agrees with the period model.
+    let o = demo_refs(
+        Some(CurrentChoice::Mix { ptat: 0.45, res_type: "rpoly".into() }),
+        Some(ThresholdChoice::Bandgap { tc: 0.0, psrr: 40.0 }),
+    )
+    .at(Some(125.0), Some(2.0), None)
+    .unwrap();
+    close(simulate(&o, 40, &Options::default()).unwrap().period, o.period().unwrap(), 1e-8);
+    let e = eval(r#"osc_from("demo180", "window", #{c: 250f, i: 1u, v_lo: 0.5, v_hi: 1.1, reference: #{kind: "constant_gm", k: 1}})"#).unwrap_err();
+    assert!(e.contains("cannot start up"), "{e}");
 }

@@ -1,6 +1,6 @@
 //! Processes: built-in and from TOML files, corners, operating point.
 use super::super::session::Shared;
-use super::{Opts, R, err, lift, num, pair_design, series_of};
+use super::{Opts, R, err, lift, num, pair_design, series_of, temp};
 use crate::engine::api;
 use crate::num::Series;
 use crate::physics::capacitor::{Capacitor, MosCap};
@@ -34,6 +34,18 @@ pub(super) fn register(engine: &mut Engine, session: &Shared) {
     );
     api::fun(engine, "p.name() -> string", "process name", |p: &mut Process| p.name.clone());
     api::fun(engine, "p.vdd() -> V", "supply of the process (or of its applied corner)", |p: &mut Process| p.vdd);
+    api::fun(
+        engine,
+        "p.vbe(temp: °C) -> V",
+        "base–emitter voltage of the process's vertical bipolar at temp (Tsividis 1980: V_G0 − (T/T_r)(V_G0 − Vbe(T_r)) − η·U_T·ln(T/T_r)); needs a [bipolar] section",
+        |p: &mut Process, t: Dynamic| -> R<f64> {
+            let t = temp(&t, "p.vbe")?;
+            match &p.bipolar {
+                Some(b) => Ok(b.vbe(t)),
+                None => Err(format!("p.vbe: process '{}' has no [bipolar] section", p.name).into()),
+            }
+        },
+    );
     api::fun(engine, "p.temp() -> °C", "temperature of the applied corner (tnom when none)", |p: &mut Process| p.temp);
     api::fun(engine, "p.tnom() -> °C", "temperature at which the process parameters are given", |p: &mut Process| {
         p.tnom
